@@ -29,6 +29,9 @@ __all__ = [
     "ParseError",
     "StoredResultError",
     "DerivationStepError",
+    "StateError",
+    "TensorOperatorError",
+    "NotInImageError",
 ]
 
 
@@ -72,3 +75,22 @@ class StoredResultError(AmalgebraError, ValueError):
 
 class DerivationStepError(AmalgebraError, AssertionError):
     """A step of a derivation record does not hold."""
+
+
+class StateError(AmalgebraError, ValueError):
+    """A state or a basis cannot be built or used as asked: a product ket with
+    a repeated label, a basis that is not orthonormal, a bra and a ket over
+    different labels, an object that is not a combination of kets."""
+
+
+class TensorOperatorError(AmalgebraError, ValueError):
+    """A spherical tensor operator cannot be used as asked: a table of matrix
+    elements that is not that of an irreducible tensor of the stated rank, or a
+    tensor declared under one angular momentum used with another."""
+
+
+class NotInImageError(AmalgebraError, ValueError):
+    """An operator or a state is outside the image of a map it was given to:
+    e.g. a boson expression that does not commute with ``N_a + N_b`` (or whose
+    coefficients depend on ``j = (N_a + N_b)/2`` other than through ``j(j + 1)``)
+    given to the inverse Schwinger map."""

@@ -1,0 +1,123 @@
+r"""Commutators, nested commutators and the adjoint action, in canonical form.
+
+Explanation
+===========
+
+All three work inside the shift-form kernel and convert back once.
+:math:`[A, B] = AB - BA`; :math:`\mathrm{ad}_X^n(Y) = [X, [X, \ldots [X, Y]]]`
+(``n`` brackets, :math:`\mathrm{ad}_X^0(Y) = Y`); the adjoint action is the
+Hadamard series
+
+.. math::
+
+    e^{X} Y e^{-X} = \sum_{n=0}^{\infty} \frac{1}{n!} \mathrm{ad}_X^n(Y),
+
+truncated after the term ``n = order`` (exact when the series terminates, e.g.
+for nilpotent :math:`\mathrm{ad}_X`).
+
+Examples
+========
+
+>>> from sympy import I, symbols
+>>> from amalgebra.algebra import AngularMomentum, commutator, adjoint_action
+>>> J = AngularMomentum("J")
+>>> commutator(J.x, J.y)                 # Sakurai (3.1.20): [Jx, Jy] = i Jz
+I*J.z
+>>> commutator(J.z, J.plus**3)           # [Jz, J+^n] = n J+^n
+3*J.plus**3
+>>> t = symbols("t")
+>>> adjoint_action(I*t*J.z, J.plus, 3)   # e^{i t Jz} J+ e^{-i t Jz} = e^{i t} J+, to order 3
+-I*t**3*J.plus/6 - t**2*J.plus/2 + I*t*J.plus + J.plus
+
+References
+==========
+
+.. [1] J. J. Sakurai, *Modern Quantum Mechanics*, eqs. (3.1.20) and (2.3.47).
+"""
+
+from math import factorial
+from numbers import Integral
+
+from ..errors import OperatorError
+from .convert import kernel_of
+
+__all__ = ["commutator", "nested_commutator", "adjoint_action"]
+
+
+def _count(value, name):
+    if isinstance(value, bool) or not isinstance(value, Integral) or value < 0:
+        raise OperatorError(f"{name}={value!r} must be a nonnegative int")
+    return int(value)
+
+
+def commutator(a, b):
+    """Return ``[a, b] = a*b - b*a`` in canonical form.
+
+    Examples
+    ========
+
+    >>> from amalgebra.algebra import AngularMomentum, commutator
+    >>> J, S = AngularMomentum("J"), AngularMomentum("S")
+    >>> commutator(J.squared, J.x), commutator(J.x, S.y)   # Casimir; different labels
+    (0, 0)
+    >>> commutator(J.plus, J.minus)
+    2*J.z
+
+    Parameters
+    ==========
+
+    a, b : Expr
+        Operator polynomials.
+
+    See Also
+    ========
+
+    nested_commutator, adjoint_action, amalgebra.algebra.canonical
+    """
+    algebra, (x, y) = kernel_of(a, b)
+    return algebra.to_expr(algebra.sub(algebra.mul(x, y), algebra.mul(y, x)))
+
+
+def nested_commutator(x, y, n):
+    """Return ``[x, [x, ... [x, y]]]`` with ``n`` brackets (``n = 0`` gives ``y``).
+
+    >>> from amalgebra.algebra import AngularMomentum, nested_commutator
+    >>> J = AngularMomentum("J")
+    >>> nested_commutator(J.z, J.minus, 4)      # ad_{Jz}^n J- = (-1)^n J-
+    J.minus
+    """
+    n = _count(n, "n")
+    algebra, (ex, ey) = kernel_of(x, y)
+    for _ in range(n):
+        ey = algebra.sub(algebra.mul(ex, ey), algebra.mul(ey, ex))
+    return algebra.to_expr(ey)
+
+
+def adjoint_action(x, y, order):
+    r"""Return :math:`\sum_{n=0}^{\mathrm{order}} \mathrm{ad}_x^n(y)/n!`, the
+    truncation of :math:`e^{x} y e^{-x}` after the term ``n = order``.
+
+    >>> from sympy import symbols, I
+    >>> from amalgebra.algebra import AngularMomentum, adjoint_action
+    >>> J = AngularMomentum("J")
+    >>> b = symbols("b")
+    >>> adjoint_action(-I*b*J.y, J.z, 2)   # rotation about y, to second order in b
+    -b**2*J.z/2 + b*J.minus/2 + b*J.plus/2 + J.z
+
+    Parameters
+    ==========
+
+    x, y : Expr
+    order : int
+        Highest power of ``ad_x`` kept (``order = 0`` returns ``canonical(y)``).
+    """
+    order = _count(order, "order")
+    algebra, (ex, ey) = kernel_of(x, y)
+    terms = [ey]
+    current = ey
+    for n in range(1, order + 1):
+        current = algebra.sub(algebra.mul(ex, current), algebra.mul(current, ex))
+        if not current:
+            break
+        terms.append(algebra.scale(current, algebra.domain.one, factorial(n)))
+    return algebra.to_expr(algebra.add(*terms))

@@ -1,0 +1,437 @@
+r"""Integer kernels for the coupling coefficients: Racah sums on prime-factorised factorials.
+
+Explanation
+===========
+
+Nothing here imports SymPy and nothing validates: arguments are *doubled*
+angular momenta (``2j``, ``2m``) as Python ints that already obey every
+selection rule.  Each kernel returns an exact value as a triple
+``(n, d, s)`` of Python ints meaning
+
+.. math:: n / d \cdot \sqrt{s}, \qquad d > 0,\ \gcd(n, d) = 1,\ s \ge 1 \text{ squarefree},
+
+the canonical form of a number whose square is rational (``(0, 1, 1)`` is zero).
+
+How the square root is split without factorising anything large: every
+factorial enters as its exponent vector over the primes (Legendre's formula),
+*packed* into one Python int ``sum_i e_i 2^(32 i)`` (signed digits are fine:
+the packing is a ring homomorphism, so adding packed vectors adds exponent
+vectors exactly).  The radicand of each symbol is a pure product of
+factorials, hence known in factorised form; the Racah sum itself is computed as
+one integer ``P`` (a Horner scheme on the ratio of consecutive terms, no
+division) whose denominator is again a product of factorials.  Only ``P`` stays
+unfactorised, and it stays outside the square root.
+
+References
+==========
+
+.. [1] G. Racah, Phys. Rev. 62, 438 (1942) (the single-sum formulas).
+.. [2] A. R. Edmonds, *Angular Momentum in Quantum Mechanics* (1957), eqs. 3.7.3, 6.3.7, 6.4.3.
+"""
+
+import struct
+import sys
+import threading
+from itertools import accumulate, compress
+from math import gcd, isqrt, prod
+from operator import eq
+
+__all__ = [
+    "clear_tables",
+    "sqrt_triple",
+    "multiply_sqrt",
+    "threej_kernel",
+    "sixj_kernel",
+    "sixj_kernel_sorted",
+    "ninej_kernel",
+    "sixj_racah_sum",
+]
+
+_FIELD = 32
+_HALF = 1 << (_FIELD - 1)
+
+# Tables grown on demand: primes, index of each prime, smallest prime factor,
+# packed exponent vector of n! for n = 0, 1, ...
+_primes = []
+_prime_index = {}
+_spf = [0, 1]
+_fact_pack = [0, 0]
+_pi = [0, 0]  # _pi[n] = number of primes <= n
+_bias = {}
+# Growth replaces whole tables (each prefix is unchanged, ``_pi`` is swapped in last),
+# so readers in other threads stay consistent; growth itself is serialised.
+_growth = threading.RLock()
+
+
+def clear_tables():
+    """Forget the prime and factorial tables (they regrow on demand).
+
+    Not to be called while another thread is evaluating a symbol.
+    """
+    with _growth:
+        _clear_tables()
+
+
+def _clear_tables():
+    _primes.clear()
+    _prime_index.clear()
+    _bias.clear()
+    _masks_cache.clear()
+    del _spf[2:]
+    del _fact_pack[2:]
+    del _pi[2:]
+
+
+def _sieve(limit):
+    """Extend the prime tables (smallest prime factors, primes, prime counts) past ``limit``."""
+    if limit < len(_pi):
+        return
+    with _growth:
+        if limit >= len(_pi):
+            _sieve_locked(limit)
+
+
+def _sieve_locked(limit):
+    size = max(limit + 1, 2 * len(_pi), 64)
+    root = isqrt(size - 1)
+    spf = list(range(size))
+    # Slice assignments from the largest sieving prime down, so the smallest prime factor writes last.
+    flags = bytearray([1]) * (root + 1)  # primes up to root (Eratosthenes on a byte array)
+    flags[:2] = b"\x00\x00"
+    for p in range(2, isqrt(root) + 1):
+        if flags[p]:
+            flags[p * p::p] = bytes(len(range(p * p, root + 1, p)))
+    for p in reversed(list(compress(range(root + 1), flags))):
+        spf[p * p::p] = [p] * len(range(p * p, size, p))
+    is_prime = list(map(eq, spf, range(size)))
+    is_prime[0] = is_prime[1] = False
+    _spf[:] = spf
+    _primes[:] = compress(range(size), is_prime)
+    _prime_index.clear()
+    _prime_index.update(zip(_primes, range(len(_primes))))
+    _pi[:] = list(accumulate(is_prime, initial=0))[1:]
+
+
+def _grow(limit):
+    """Extend the dense table so that ``_fact_pack[n]`` exists for every ``n <= limit``."""
+    if limit < len(_fact_pack):
+        return
+    with _growth:
+        if limit >= len(_fact_pack):
+            _grow_locked(limit)
+
+
+def _grow_locked(limit):
+    target = max(limit + 1, 2 * len(_fact_pack), 64)
+    _sieve(target - 1)
+    spf = _spf
+    index = _prime_index
+    units = [1 << (_FIELD * k) for k in range(_pi[target - 1])]
+    pack = _fact_pack[-1]
+    for n in range(len(_fact_pack), target):
+        # the vector of n itself: small primes first, so only the last addition is a long one
+        m = n
+        vector = 0
+        while m > 1:
+            p = spf[m]
+            m //= p
+            vector += units[index[p]]
+        pack += vector
+        _fact_pack.append(pack)
+
+
+class _LegendrePacks(dict):
+    """Packed factorial vectors computed on demand by Legendre's formula (for large arguments,
+    where a dense table would need memory quadratic in the largest argument)."""
+
+    __slots__ = ()
+
+    def __missing__(self, n):
+        if n < len(_fact_pack):
+            return _fact_pack[n]
+        length = _pi[n]
+        exponents = []
+        for p in _primes[:length]:
+            e, m = 0, n
+            while m:
+                m //= p
+                e += m
+            exponents.append(e)
+        value = int.from_bytes(struct.pack(f"<{length}I", *exponents), "little")
+        self[n] = value
+        return value
+
+
+DENSE_LIMIT = 4096
+"""Largest factorial argument kept in the dense table (about 9 MB at the limit)."""
+
+
+def _packs(top):
+    """Indexable packed vectors of ``n!`` for every ``n <= top``."""
+    if top < DENSE_LIMIT:
+        if top >= len(_fact_pack):
+            _grow(top)
+        return _fact_pack
+    _sieve(top)
+    return _LegendrePacks()
+
+
+def _unpack(packed, length):
+    """Signed exponent list of the first ``length`` primes from a packed vector."""
+    bias = _bias.get(length)
+    if bias is None:
+        bias = int.from_bytes(b"\x00\x00\x00\x80" * length, "little")
+        _bias[length] = bias
+    raw = struct.unpack(f"<{length}I", (packed + bias).to_bytes(4 * length, "little"))
+    return [e - _HALF for e in raw]
+
+
+def _nprimes(limit):
+    """Number of primes <= limit (tables must cover limit)."""
+    return _pi[limit]
+
+
+def _masks(length):
+    """``(low, bias, half)``: bit 0, bit 31 and bit 30 set in each of ``length`` 32-bit digits."""
+    masks = _masks_cache.get(length)
+    if masks is None:
+        low = int.from_bytes(b"\x01\x00\x00\x00" * length, "little")
+        masks = _masks_cache[length] = (low, low << 31, low << 30)
+    return masks
+
+
+_masks_cache = {}
+_DIGIT = (1 << _FIELD) - 1
+# memoryview.cast reads native-endian unsigned ints; pick the 4-byte type code.
+_NATIVE = sys.byteorder
+_UINT32 = next(code for code in "IL" if memoryview(bytes(8)).cast(code).itemsize == 4)
+
+
+def _split_square(packed, limit, factor):
+    """Canonical triple of ``factor * sqrt(prod p^e)`` for a packed exponent vector.
+
+    ``limit`` bounds every factorial argument that entered ``packed``.  Works
+    on all digits at once: adding ``2^31`` to each digit makes them carry-free,
+    so the low bit of each digit is the parity of ``e`` (the squarefree part is
+    the product of the primes with a set bit), and after subtracting the
+    parities and halving, bit 30 of each digit tells the sign of ``e // 2``;
+    positive and negative halves are then separated by digit masks and read
+    back as plain byte arrays.
+    """
+    if factor == 0:
+        return 0, 1, 1
+    length = _pi[limit]
+    if not length:
+        return factor, 1, 1
+    low, bias, half = _masks(length)
+    size = 4 * length
+    primes = _primes
+    biased = packed + bias
+    odd = biased & low
+    s = prod(compress(primes, odd.to_bytes(size, "little")[::4]))
+    digits = (biased - odd) >> 1              # each digit is e // 2 + 2^30
+    sign = digits & half                      # bit 30 set where e // 2 >= 0
+    upper = digits & ((sign >> 30) * _DIGIT)  # the digits with e // 2 >= 0
+    n = factor
+    ups = upper - sign
+    if ups:  # often none: large-j radicands are mostly small
+        ups = memoryview(ups.to_bytes(size, _NATIVE)).cast(_UINT32).tolist()
+        n *= prod(map(pow, compress(primes, ups), filter(None, ups)))
+    downs = memoryview(((half ^ sign) - (digits ^ upper)).to_bytes(size, _NATIVE)).cast(_UINT32).tolist()
+    den = prod(map(pow, compress(primes, downs), filter(None, downs)))
+    if den != 1:
+        g = gcd(factor, den)
+        if g != 1:
+            n //= g
+            den //= g
+    return n, den, s
+
+
+def _squarefree_small(n):
+    """``(u, v)`` with ``n = u^2 v`` and ``v`` squarefree, for a small positive int."""
+    _sieve(n)
+    u = v = 1
+    while n > 1:
+        p = _spf[n]
+        e = 0
+        while n % p == 0:
+            n //= p
+            e += 1
+        u *= p ** (e >> 1)
+        if e & 1:
+            v *= p
+    return u, v
+
+
+def sqrt_triple(n):
+    """Canonical triple of ``sqrt(n)`` for a small positive int ``n``."""
+    u, v = _squarefree_small(n)
+    return u, 1, v
+
+
+def multiply_sqrt(triple, k):
+    """Canonical triple of ``triple * sqrt(k)`` for a small positive int ``k``."""
+    n, d, s = triple
+    if n == 0:
+        return triple
+    g = gcd(s, k)
+    u, v = _squarefree_small(k // g)
+    n *= g * u
+    s = (s // g) * v
+    h = gcd(n, d)
+    return n // h, d // h, s
+
+
+def threej_kernel(tj1, tj2, tj3, tm1, tm2, tm3):
+    """The 3j symbol (Racah's formula) as a canonical triple; selection rules assumed."""
+    big = (tj1 + tj2 + tj3) // 2 + 1
+    fp = _packs(big)
+    b1 = (tj1 + tj2 - tj3) // 2
+    b2 = (tj1 - tm1) // 2
+    b3 = (tj2 + tm2) // 2
+    c1 = (tj3 - tj2 + tm1) // 2
+    c2 = (tj3 - tj1 - tm2) // 2
+    kmin = max(0, -c1, -c2)
+    kmax = min(b1, b2, b3)
+    if kmin > kmax:
+        return 0, 1, 1
+    p = q = 1
+    for k in range(kmax - 1, kmin - 1, -1):
+        q *= (k + 1) * (c1 + k + 1) * (c2 + k + 1)
+        p = q - (b1 - k) * (b2 - k) * (b3 - k) * p
+    if p == 0:
+        return 0, 1, 1
+    packed = (fp[b1] + fp[(tj1 - tj2 + tj3) // 2] + fp[(tj2 + tj3 - tj1) // 2] - fp[big]
+              + fp[b2] + fp[(tj1 + tm1) // 2] + fp[(tj2 - tm2) // 2] + fp[b3]
+              + fp[(tj3 - tm3) // 2] + fp[(tj3 + tm3) // 2]
+              - 2 * (fp[kmax] + fp[c1 + kmax] + fp[c2 + kmax]
+                     + fp[b1 - kmin] + fp[b2 - kmin] + fp[b3 - kmin]))
+    if ((tj1 - tj2 - tm3) // 2 + kmin) & 1:
+        p = -p
+    return _split_square(packed, big, p)
+
+
+def sixj_racah_sum(alpha, beta, fp=_fact_pack):
+    """Racah's 6j sum as ``(P, packed)`` meaning ``P * prod p^e``.
+
+    ``alpha`` are the four triad sums, ``beta`` the three sums of four j's
+    (plain ints); the sum is over ``t`` of
+    ``(-1)^t (t+1)! / (prod (t - alpha_i)! prod (beta_j - t)!)``.  ``fp`` holds the
+    packed vectors of ``n!`` up to ``max(beta) + 1`` (the dense table by default,
+    which the caller must have grown).
+    """
+    a1, a2, a3, a4 = alpha
+    e1, e2, e3 = beta
+    t0 = max(alpha)
+    t1 = min(beta)
+    p = q = 1
+    for t in range(t1 - 1, t0 - 1, -1):
+        q *= (t + 1 - a1) * (t + 1 - a2) * (t + 1 - a3) * (t + 1 - a4)
+        p = q - (t + 2) * (e1 - t) * (e2 - t) * (e3 - t) * p
+    packed = (fp[t0 + 1] - fp[t1 - a1] - fp[t1 - a2] - fp[t1 - a3] - fp[t1 - a4]
+              - fp[e1 - t0] - fp[e2 - t0] - fp[e3 - t0])
+    return (-p if t0 & 1 else p), packed
+
+
+def _delta_pack(fp, x, y, z):
+    """Packed vector of the triangle coefficient Delta(x y z) from doubled values."""
+    return (fp[(x + y - z) // 2] + fp[(x - y + z) // 2] + fp[(y + z - x) // 2]
+            - fp[(x + y + z) // 2 + 1])
+
+
+def sixj_kernel(alpha, beta):
+    """The 6j symbol from its triad sums ``alpha`` and quadruple sums ``beta``.
+
+    Every triangle rule is assumed; the value depends on the multisets only
+    (the 144 classical and Regge symmetries).  With ``alpha`` and ``beta``
+    sorted, ``t0 = a4`` and ``t1 = e1``, so in the radicand (the Racah sum's
+    denominator squared times the four triangle coefficients) every factorial
+    is one of the twelve ``(e_j - a_i)!`` or an ``(a_i + 1)!``; the exponent
+    vector is summed with those multiplicities directly.
+    """
+    return sixj_kernel_sorted(*sorted(alpha), *sorted(beta))
+
+
+def sixj_kernel_sorted(a1, a2, a3, a4, e1, e2, e3):
+    """:func:`sixj_kernel` for ``a1 <= a2 <= a3 <= a4`` and ``e1 <= e2 <= e3`` (the canonical key)."""
+    top = e3 + 1
+    fp = _packs(top)
+    # Racah sum over t = a4 .. e1 (Horner on the ratio of consecutive terms), as in
+    # sixj_racah_sum, written with u = t + 1 and f_j = e_j + 1.
+    f1, f2, f3 = e1 + 1, e2 + 1, e3 + 1
+    p = q = 1
+    for u in range(e1, a4, -1):
+        q *= (u - a1) * (u - a2) * (u - a3) * (u - a4)
+        p = q - (u + 1) * (f1 - u) * (f2 - u) * (f3 - u) * p
+    if p == 0:
+        return 0, 1, 1
+    if a4 & 1:
+        p = -p
+    # 2 * [(a4+1)! / prod_i (e1-a_i)! / prod_j (e_j-a4)!]  +  sum_ij (e_j-a_i)!  -  sum_i (a_i+1)!
+    packed = (fp[a4 + 1] - fp[a1 + 1] - fp[a2 + 1] - fp[a3 + 1]
+              - fp[e1 - a1] - fp[e1 - a2] - fp[e1 - a3] - 3 * fp[e1 - a4]
+              + fp[e2 - a1] + fp[e2 - a2] + fp[e2 - a3] - fp[e2 - a4]
+              + fp[e3 - a1] + fp[e3 - a2] + fp[e3 - a3] - fp[e3 - a4])
+    return _split_square(packed, top, p)
+
+
+def _sixj_sums(t1, t2, t3, t4, t5, t6):
+    """(alpha, beta) of the 6j {j1 j2 j3; j4 j5 j6} from doubled values."""
+    return ((t1 + t2 + t3) // 2, (t1 + t5 + t6) // 2, (t4 + t2 + t6) // 2, (t4 + t5 + t3) // 2), \
+        ((t1 + t2 + t4 + t5) // 2, (t2 + t3 + t5 + t6) // 2, (t3 + t1 + t6 + t4) // 2)
+
+
+def ninej_kernel(a, b, c, d, e, f, g, h, i):
+    """The 9j symbol {a b c; d e f; g h i} (doubled values, all six triads valid).
+
+    Uses Edmonds (6.4.3): a sum over x of (-1)^(2x) (2x+1) times
+    {a b c; f i x} {d e f; b x h} {g h i; x a d}.  In the product of the three
+    6j square roots the x-dependent triangle coefficients appear squared, so
+    every term is rational times one common root; the terms are brought to a
+    common denominator through their exponent vectors.
+    """
+    lo = max(abs(a - i), abs(b - f), abs(d - h))
+    hi = min(a + i, b + f, d + h)
+    if lo > hi:
+        return 0, 1, 1
+    # Largest factorial argument: a quadruple sum of one of the three 6j (x at its top) + 1.
+    top = max(a + b + f + i, b + c + i + hi, c + a + hi + f, d + e + b + hi, e + f + hi + h,
+              f + d + h + b, g + h + hi + a, h + i + a + d, i + g + d + hi) // 2 + 1
+    fp = _packs(top)
+    terms = []
+    for x in range(lo, hi + 1, 2):
+        p1, s1 = sixj_racah_sum(*_sixj_sums(a, b, c, f, i, x), fp)
+        if p1 == 0:
+            continue
+        p2, s2 = sixj_racah_sum(*_sixj_sums(d, e, f, b, x, h), fp)
+        if p2 == 0:
+            continue
+        p3, s3 = sixj_racah_sum(*_sixj_sums(g, h, i, x, a, d), fp)
+        if p3 == 0:
+            continue
+        coeff = (x + 1) * p1 * p2 * p3
+        if x & 1:
+            coeff = -coeff
+        terms.append((coeff, s1 + s2 + s3 + _delta_pack(fp, a, i, x) + _delta_pack(fp, b, f, x)
+                      + _delta_pack(fp, d, h, x)))
+    if not terms:
+        return 0, 1, 1
+    length = _nprimes(top)
+    primes = _primes[:length]
+    vectors = [_unpack(packed, length) for _, packed in terms]
+    low = [min(column) for column in zip(*vectors)]
+    total = 0
+    for (coeff, _), vector in zip(terms, vectors):
+        for prime, ex, m in zip(primes, vector, low):
+            if ex != m:
+                coeff *= prime ** (ex - m)
+        total += coeff
+    if total == 0:
+        return 0, 1, 1
+    common = 0
+    for p_index, m in enumerate(low):
+        if m:
+            common += m << (_FIELD * p_index)
+    outer = (_delta_pack(fp, a, b, c) + _delta_pack(fp, d, e, f) + _delta_pack(fp, g, h, i)
+             + _delta_pack(fp, a, d, g) + _delta_pack(fp, b, e, h) + _delta_pack(fp, c, f, i))
+    return _split_square(2 * common + outer, top, total)

@@ -1,0 +1,545 @@
+r"""Notation: how every amalgebra object is written as str, Unicode pretty and LaTeX.
+
+Explanation
+===========
+
+This module is the single place that decides notation.  The classes keep
+SymPy's printmethod hooks (``_sympystr``, ``_pretty``, ``_latex``) and each
+hook is one call to a function here; every sub-expression is printed with
+``printer._print(sub)``, so printer settings propagate.  No printer is
+patched and no global state is kept.
+
+The functions are grouped by object kind and named ``<kind>_str``,
+``<kind>_pretty`` and ``<kind>_latex``; each takes ``(printer, obj)``.
+Multi-letter labels are set upright in LaTeX (``\mathrm{S1}``), one-letter
+labels italic.  The notation table (str / LaTeX):
+
+========================  =================================  ========================================================
+object                    str                                LaTeX
+========================  =================================  ========================================================
+``AngularMomentum("J")``  ``AngularMomentum('J')``           ``\mathbf{J}``
+``J.z``, ``J.plus``       ``J.z``, ``J.plus``                ``J_{z}``, ``J_{+}``
+``J.squared``             ``J.squared``                      ``\left(J^{2}\right)`` (superscript protected)
+``Ket(1, 0, "S")``        ``|1, 0>_S``                       ``{\left|1, 0\right\rangle}_{S}``
+``Bra(1, 0, "S")``        ``<1, 0|_S``                       ``{\left\langle 1, 0\right|}_{S}``
+coupled ket               ``|(1_A 1_B)2, 0>``                ``\left|\left(1_{A} 1_{B}\right) 2, 0\right\rangle``
+``a.create``              ``a.create``                       ``{a^{\dagger}}``
+Fock ket                  ``|2, 1>_(a,b)``                   ``{\left|2, 1\right\rangle}_{a,b}``
+D-matrix element          ``D^{1}_{1,0}(a, b, c)``           ``D^{1}_{1,0}\left(a,b,c\right)``
+reduced matrix element    ``<1||T^(1)||1>``                  ``\langle 1 \| T^{(1)} \| 1 \rangle``
+tensor component          ``T^(1)_(0)``                      ``{T^{(1)}_{0}}``
+CG symbol                 ``CG(1, 0, 1, 0 | 2, 0)``          ``\left\langle 1, 0; 1, 0 \middle| 2, 0 \right\rangle``
+3j symbol                 ``3j(1, 1, 2; 0, 0, 0)``           ``\begin{pmatrix} 1 & 1 & 2 \\ 0 & 0 & 0 \end{pmatrix}``
+6j symbol                 ``6j{1, 1, 1; 1, 1, 1}``           ``\begin{Bmatrix}`` 2 x 3 ``\end{Bmatrix}``
+9j symbol                 ``9j{a, b, c; d, e, f; g, h, i}``  ``\begin{Bmatrix}`` 3 x 3 ``\end{Bmatrix}``
+========================  =================================  ========================================================
+
+Examples
+========
+
+>>> from sympy import latex, pretty
+>>> from amalgebra.states.kets import Ket
+>>> k = Ket(1, 0, "S1")
+>>> str(k), latex(k)
+('|1, 0>_S1', '{\\left|1, 0\\right\\rangle}_{\\mathrm{S1}}')
+>>> pretty(k, use_unicode=False)
+'|1, 0>_S1'
+
+The dagger of a ket prints as the bra with the same numbers (an identity of
+notation and algebra together):
+
+>>> from sympy import adjoint
+>>> str(adjoint(k)) == "<1, 0|_S1"
+True
+
+See Also
+========
+
+amalgebra.coupling.symbols
+
+References
+==========
+
+.. [1] A. R. Edmonds, *Angular Momentum in Quantum Mechanics* (Princeton, 1957),
+       ch. 3 and 6 (notation of the 3j, 6j and 9j symbols).
+"""
+
+from sympy import ImmutableMatrix
+from sympy.printing.pretty.pretty_symbology import pretty_symbol
+from sympy.printing.pretty.stringpict import prettyForm, stringPict
+
+__all__ = [
+    "NotationHooks",
+    "label_latex",
+    "angular_momentum_str", "angular_momentum_latex", "angular_momentum_pretty",
+    "component_str", "component_latex", "component_pretty",
+    "state_str", "state_latex", "state_pretty",
+    "product_str", "product_latex", "product_pretty",
+    "coupled_str", "coupled_latex", "coupled_pretty",
+    "boson_mode_str", "boson_mode_latex", "boson_mode_pretty",
+    "boson_operator_str", "boson_operator_latex", "boson_operator_pretty",
+    "fock_str", "fock_latex", "fock_pretty",
+    "rotation_str", "rotation_latex", "rotation_pretty",
+    "reduced_str", "reduced_latex", "reduced_pretty",
+    "spherical_tensor_str", "spherical_tensor_latex", "spherical_tensor_pretty",
+    "tensor_component_str", "tensor_component_latex", "tensor_component_pretty",
+    "vector_operator_str", "vector_operator_latex", "vector_operator_pretty",
+    "vector_component_str", "vector_component_latex", "vector_component_pretty",
+    "tensor_components_str", "tensor_components_latex", "tensor_components_pretty",
+    "cg_symbol_str", "cg_symbol_latex", "cg_symbol_pretty",
+    "array_symbol_str", "array_symbol_latex", "array_symbol_pretty",
+    "text_latex",
+    "hamiltonian_matrix_str", "hamiltonian_matrix_latex", "hamiltonian_matrix_pretty",
+    "identity_check_latex", "identity_check_pretty",
+]
+
+_COMPONENT_LATEX = {"x": "{}_{{x}}", "y": "{}_{{y}}", "z": "{}_{{z}}", "plus": "{}_{{+}}",
+                    "minus": "{}_{{-}}", "squared": "{}^{{2}}"}
+_COMPONENT_PRETTY = {"x": "_x", "y": "_y", "z": "_z", "plus": "_+", "minus": "_-"}
+#: Unicode subscript glyphs where they exist (there are none for y and z: those keep "_y", "_z")
+_SUBSCRIPT = {"x": "\N{LATIN SUBSCRIPT SMALL LETTER X}", "plus": "\N{SUBSCRIPT PLUS SIGN}",
+              "minus": "\N{SUBSCRIPT MINUS}"}
+
+
+# -- shared pieces -----------------------------------------------------------------------------
+
+def label_latex(label):
+    r"""A label in LaTeX: one letter italic, longer labels upright (``\mathrm{S1}``).
+
+    >>> label_latex("J"), label_latex("S1")
+    ('J', '\\mathrm{S1}')
+    """
+    return label if len(label) == 1 else r"\mathrm{%s}" % label
+
+
+def _unicode(printer):
+    return bool(getattr(printer, "_use_unicode", False))
+
+
+def _angles(printer):
+    if _unicode(printer):
+        return "\N{MATHEMATICAL LEFT ANGLE BRACKET}", "\N{MATHEMATICAL RIGHT ANGLE BRACKET}"
+    return "<", ">"
+
+
+def _join(printer, pieces):
+    """A prettyForm of strings and SymPy objects side by side (objects via ``printer._print``)."""
+    form = None
+    for piece in pieces:
+        part = prettyForm(piece) if isinstance(piece, str) else printer._print(piece)
+        form = part if form is None else prettyForm(*form.right(part))
+    return form
+
+
+def _comma_list(items):
+    """``[a, ", ", b, ", ", c]`` for :func:`_join`."""
+    pieces = []
+    for i, item in enumerate(items):
+        if i:
+            pieces.append(", ")
+        pieces.append(item)
+    return pieces
+
+
+def _scripted(printer, head, sup, sub):
+    """``head`` with ``sup`` above and ``sub`` below its right side (prettyForms or objects)."""
+    sup = sup if isinstance(sup, stringPict) else printer._print(sup)
+    sub = sub if isinstance(sub, stringPict) else printer._print(sub)
+    width = max(sup.width(), sub.width())
+    # scripts sit flush left against the head, as in TeX
+    sup, sub = (stringPict(*form.right(" " * (width - form.width()))) if form.width() < width else form
+                for form in (sup, sub))
+    scripts = stringPict(*stringPict.stack(sup, stringPict(" "), sub))
+    scripts.baseline = sup.height()
+    form = prettyForm(*prettyForm(head).right(scripts))
+    form.baseline = scripts.baseline
+    return form
+
+
+def _with_power(tex, exp):
+    return tex if exp is None else r"%s^{%s}" % (tex, exp)
+
+
+# -- angular momentum --------------------------------------------------------------------------
+
+def angular_momentum_str(printer, obj):
+    return f"AngularMomentum({obj.label!r})"
+
+
+def angular_momentum_latex(printer, obj, exp=None):
+    return _with_power(r"\mathbf{%s}" % obj.label, exp)
+
+
+def angular_momentum_pretty(printer, obj):
+    return prettyForm(obj.label)
+
+
+def component_str(printer, obj):
+    return f"{obj.label}.{obj.component}"
+
+
+def component_latex(printer, obj, exp=None):
+    # J^{2} would read J^{2}^{n} under a power: protect the superscript
+    tex = printer.parenthesize_super(_COMPONENT_LATEX[obj.component].format(label_latex(obj.label)))
+    return tex if exp is None else "{%s}^{%s}" % (tex, exp)
+
+
+def component_pretty(printer, obj):
+    if obj.component == "squared":
+        return prettyForm(pretty_symbol(obj.label)) ** prettyForm("2")
+    if not _unicode(printer):
+        return prettyForm(obj.label + _COMPONENT_PRETTY[obj.component])
+    glyph = _SUBSCRIPT.get(obj.component)
+    suffix = glyph if glyph else _COMPONENT_PRETTY[obj.component]
+    return prettyForm(pretty_symbol(obj.label) + suffix)
+
+
+# -- single, product and coupled states -------------------------------------------------------
+
+def state_str(printer, obj):
+    """``|j, m>_L`` for a ket, ``<j, m|_L`` for a bra (a class named ``...Ket`` is a ket)."""
+    body = f"{printer._print(obj.j)}, {printer._print(obj.m)}"
+    return f"|{body}>_{obj.label}" if _is_ket(obj) else f"<{body}|_{obj.label}"
+
+
+def state_latex(printer, obj, exp=None):
+    body = f"{printer._print(obj.j)}, {printer._print(obj.m)}"
+    tex = r"\left|%s\right\rangle" % body if _is_ket(obj) else r"\left\langle %s\right|" % body
+    return _with_power(r"{%s}_{%s}" % (tex, label_latex(obj.label)), exp)
+
+
+def state_pretty(printer, obj):
+    left, right = ("|", _angles(printer)[1]) if _is_ket(obj) else (_angles(printer)[0], "|")
+    return _join(printer, [left, obj.j, ", ", obj.m, right + "_" + obj.label])
+
+
+def _is_ket(obj):
+    return type(obj).__name__.endswith("Ket")
+
+
+def product_str(printer, obj):
+    return "".join(printer._print(k) for k in obj.args)
+
+
+def product_latex(printer, obj, exp=None):
+    tex = " ".join(printer._print(k) for k in obj.args)
+    return tex if exp is None else r"\left(%s\right)^{%s}" % (tex, exp)
+
+
+def product_pretty(printer, obj):
+    return _join(printer, list(obj.args))
+
+
+def coupled_str(printer, obj):
+    labs, js = obj.labels, obj.js
+    text = f"{printer._print(js[0])}_{labs[0]} {printer._print(js[1])}_{labs[1]}"
+    for k in range(2, len(js)):
+        text = f"({text}){printer._print(obj.intermediates[k - 2])} {printer._print(js[k])}_{labs[k]}"
+    body = f"({text}){printer._print(obj.J)}, {printer._print(obj.M)}"
+    return f"|{body}>" if _is_ket(obj) else f"<{body}|"
+
+
+def coupled_latex(printer, obj, exp=None):
+    labs = [label_latex(lab) for lab in obj.labels]
+    js = obj.js
+    text = r"%s_{%s} %s_{%s}" % (printer._print(js[0]), labs[0], printer._print(js[1]), labs[1])
+    for k in range(2, len(js)):
+        text = r"\left(%s\right) %s\, %s_{%s}" % (text, printer._print(obj.intermediates[k - 2]),
+                                               printer._print(js[k]), labs[k])
+    body = r"\left(%s\right) %s, %s" % (text, printer._print(obj.J), printer._print(obj.M))
+    tex = r"\left|%s\right\rangle" % body if _is_ket(obj) else r"\left\langle %s\right|" % body
+    return _with_power(tex, exp)
+
+
+def coupled_pretty(printer, obj):
+    labs, js = obj.labels, obj.js
+    pieces = ["(", js[0], "_" + labs[0] + " ", js[1], "_" + labs[1]]
+    for k in range(2, len(js)):
+        pieces = ["("] + pieces + [")", obj.intermediates[k - 2], " ", js[k], "_" + labs[k]]
+    pieces += [")", obj.J, ", ", obj.M]
+    left, right = ("|", _angles(printer)[1]) if _is_ket(obj) else (_angles(printer)[0], "|")
+    return _join(printer, [left] + pieces + [right])
+
+
+# -- bosons -----------------------------------------------------------------------------------
+
+def boson_mode_str(printer, obj):
+    return f"BosonMode({obj.label!r})"
+
+
+def boson_mode_latex(printer, obj, exp=None):
+    return _with_power(label_latex(obj.label), exp)
+
+
+def boson_mode_pretty(printer, obj):
+    return prettyForm(obj.label)
+
+
+def boson_operator_str(printer, obj):
+    return f"{obj.label}.{obj.kind}"
+
+
+def boson_operator_latex(printer, obj, exp=None):
+    head = label_latex(obj.label)
+    if obj.kind == "annihilate":
+        tex = head
+    elif obj.kind == "create":
+        tex = r"{%s^{\dagger}}" % head  # braced: a power then reads {a^{\dagger}}^{2}
+    else:
+        tex = r"\hat{N}_{%s}" % head
+    return tex if exp is None else "{%s}^{%s}" % (tex, exp)
+
+
+def boson_operator_pretty(printer, obj):
+    unicode = _unicode(printer)
+    if obj.kind == "annihilate":
+        return prettyForm(pretty_symbol(obj.label) if unicode else obj.label)
+    if obj.kind == "create":
+        return prettyForm((pretty_symbol(obj.label) + "\N{DAGGER}") if unicode else obj.label + "^+")
+    return prettyForm(pretty_symbol("N_" + obj.label) if unicode else "N_" + obj.label)
+
+
+def fock_str(printer, obj):
+    body = ", ".join(printer._print(n) for n in obj.occupations)
+    modes = ",".join(obj.modes)
+    return f"|{body}>_({modes})" if _is_ket(obj) else f"<{body}|_({modes})"
+
+
+def fock_latex(printer, obj, exp=None):
+    body = ", ".join(printer._print(n) for n in obj.occupations)
+    tex = r"\left|%s\right\rangle" % body if _is_ket(obj) else r"\left\langle %s\right|" % body
+    modes = ",".join(label_latex(mode) for mode in obj.modes)
+    return _with_power(r"{%s}_{%s}" % (tex, modes), exp)
+
+
+def fock_pretty(printer, obj):
+    left, right = ("|", _angles(printer)[1]) if _is_ket(obj) else (_angles(printer)[0], "|")
+    tail = right + "_(" + ",".join(obj.modes) + ")"
+    return _join(printer, [left] + _comma_list(obj.occupations) + [tail])
+
+
+# -- rotations and reduced matrix elements -----------------------------------------------------
+
+def rotation_str(printer, obj):
+    j, mp, m = (printer._print(x) for x in obj.args[:3])
+    angles = ", ".join(printer._print(x) for x in obj.angles)
+    return f"D^{{{j}}}_{{{mp},{m}}}({angles})"
+
+
+def rotation_latex(printer, obj, exp=None):
+    j, mp, m = (printer._print(x) for x in obj.args[:3])
+    angles = ",".join(printer._print(x) for x in obj.angles)
+    tex = f"D^{{{j}}}_{{{mp},{m}}}\\left({angles}\\right)"
+    return _with_power(tex, exp)
+
+
+def rotation_pretty(printer, obj):
+    sub = prettyForm(*printer._print(obj.mp).right(",", printer._print(obj.m)))
+    name = _scripted(printer, "D", obj.j, sub)
+    return prettyForm(*name.right(printer._print_seq(obj.angles, "(", ")")))
+
+
+def _reduced_suffix(obj):
+    return "" if obj.convention == "edmonds" else "_" + obj.convention
+
+
+def reduced_str(printer, obj):
+    _, k, jp, j, _c = obj.args
+    return (f"<{printer._print(jp)}||{obj.name}^({printer._print(k)})||"
+            f"{printer._print(j)}>{_reduced_suffix(obj)}")
+
+
+def reduced_latex(printer, obj, exp=None):
+    _, k, jp, j, _c = obj.args
+    tex = (r"\langle %s \| %s^{(%s)} \| %s \rangle"
+           % (printer._print(jp), label_latex(obj.name), printer._print(k), printer._print(j)))
+    if obj.convention != "edmonds":
+        tex += r"_{\mathrm{%s}}" % obj.convention.upper()
+    return tex if exp is None else r"\left(%s\right)^{%s}" % (tex, exp)
+
+
+def reduced_pretty(printer, obj):
+    _, k, jp, j, _c = obj.args
+    left, right = _angles(printer)
+    bar = "\N{DOUBLE VERTICAL LINE}" if _unicode(printer) else "||"
+    op = _join(printer, [obj.name + "^(", k, ")"])
+    return _join(printer, [left, jp, bar, op, bar, j, right + _reduced_suffix(obj)])
+
+
+# -- tensor and vector operators ---------------------------------------------------------------
+
+def spherical_tensor_str(printer, obj):
+    return f"{obj.name}^({printer._print(obj.rank)})[{obj.label}]"
+
+
+def spherical_tensor_latex(printer, obj, exp=None):
+    tex = r"%s^{(%s)}" % (label_latex(obj.name), printer._print(obj.rank))
+    return tex if exp is None else r"\left(%s\right)^{%s}" % (tex, exp)
+
+
+def spherical_tensor_pretty(printer, obj):
+    return _join(printer, [obj.name + "^(", obj.rank, ")"])
+
+
+def tensor_component_str(printer, obj):
+    tensor, q = obj.args
+    return f"{tensor.name}^({printer._print(tensor.rank)})_({printer._print(q)})"
+
+
+def tensor_component_latex(printer, obj, exp=None):
+    tensor, q = obj.args
+    # braces keep a later power from making a double superscript
+    tex = r"{%s^{(%s)}_{%s}}" % (label_latex(tensor.name), printer._print(tensor.rank), printer._print(q))
+    return tex if exp is None else r"\left(%s\right)^{%s}" % (tex, exp)
+
+
+def tensor_component_pretty(printer, obj):
+    tensor, q = obj.args
+    sup = _join(printer, ["(", tensor.rank, ")"])
+    return _scripted(printer, tensor.name, sup, q)
+
+
+def vector_operator_str(printer, obj):
+    return f"VectorOperator({obj.name!r}, {obj.label!r})"
+
+
+def vector_operator_latex(printer, obj, exp=None):
+    return _with_power(r"\mathbf{%s}" % obj.name, exp)
+
+
+def vector_operator_pretty(printer, obj):
+    return prettyForm(obj.name)
+
+
+def vector_component_str(printer, obj):
+    return f"{obj.vector.name}.{obj.axis}"
+
+
+def vector_component_latex(printer, obj, exp=None):
+    tex = r"%s_{%s}" % (label_latex(obj.vector.name), obj.axis)
+    return tex if exp is None else r"{%s}^{%s}" % (tex, exp)
+
+
+def vector_component_pretty(printer, obj):
+    if _unicode(printer):
+        return prettyForm(pretty_symbol(obj.vector.name + "_" + obj.axis))
+    return prettyForm(obj.vector.name + "_" + obj.axis)
+
+
+def tensor_components_str(printer, obj):
+    body = ", ".join(printer._print(c) for c in obj.components)
+    return f"TensorComponents({printer._print(obj.rank)}, ({body}))"
+
+
+def tensor_components_latex(printer, obj, exp=None):
+    body = r",\ ".join(printer._print(c) for c in obj.components)
+    tex = r"\left[%s\right]^{(%s)}" % (body, printer._print(obj.rank))
+    return tex if exp is None else r"\left(%s\right)^{%s}" % (tex, exp)
+
+
+def tensor_components_pretty(printer, obj):
+    return _join(printer, ["["] + _comma_list(obj.components) + ["]^(", obj.rank, ")"])
+
+
+# -- coupling symbols --------------------------------------------------------------------------
+
+def cg_symbol_str(printer, obj):
+    j1, m1, j2, m2, J, M = (printer._print(a) for a in obj.args)
+    return f"CG({j1}, {m1}, {j2}, {m2} | {J}, {M})"
+
+
+def cg_symbol_latex(printer, obj, exp=None):
+    j1, m1, j2, m2, J, M = (printer._print(a) for a in obj.args)
+    tex = r"\left\langle %s, %s; %s, %s \middle| %s, %s \right\rangle" % (j1, m1, j2, m2, J, M)
+    return _with_power(tex, exp)
+
+
+def cg_symbol_pretty(printer, obj):
+    j1, m1, j2, m2, J, M = obj.args
+    left, right = _angles(printer)
+    return _join(printer, [left, j1, ", ", m1, "; ", j2, ", ", m2, " | ", J, ", ", M, right])
+
+
+def _rows(obj):
+    """``(prefix, opening, closing, rows)`` of a 3j, 6j or 9j symbol."""
+    args = obj.args
+    width = 3
+    rows = [args[i:i + width] for i in range(0, len(args), width)]
+    return obj._notation_prefix, obj._notation_delims, rows
+
+
+def array_symbol_str(printer, obj):
+    prefix, (left, right), rows = _rows(obj)
+    body = "; ".join(", ".join(printer._print(a) for a in row) for row in rows)
+    return f"{prefix}{left}{body}{right}"
+
+
+def array_symbol_latex(printer, obj, exp=None):
+    _, (left, _right), rows = _rows(obj)
+    env = "pmatrix" if left == "(" else "Bmatrix"
+    body = r" \\ ".join(" & ".join(printer._print(a) for a in row) for row in rows)
+    return _with_power(r"\begin{%s} %s \end{%s}" % (env, body, env), exp)
+
+
+def array_symbol_pretty(printer, obj):
+    _, (left, right), rows = _rows(obj)
+    grid = printer._print_matrix_contents(ImmutableMatrix(rows))
+    return prettyForm(*grid.parens(left, right))
+
+
+# -- result objects (not Basic; displayed through sympy.printing.defaults.Printable) ------------
+
+_TEXT_ESCAPES = {"\\": r"\textbackslash{}", "{": r"\{", "}": r"\}", "#": r"\#", "$": r"\$", "%": r"\%",
+                 "&": r"\&", "_": r"\_", "^": r"\textasciicircum{}", "~": r"\textasciitilde{}",
+                 "<": r"\textless{}", ">": r"\textgreater{}", "|": r"\textbar{}"}
+
+
+def text_latex(text):
+    r"""Plain text as LaTeX ``\text{...}`` with the special characters escaped.
+
+    >>> text_latex("a_b <x|")
+    '\\text{a\\_b \\textless{}x\\textbar{}}'
+    """
+    return r"\text{%s}" % "".join(_TEXT_ESCAPES.get(ch, ch) for ch in text)
+
+
+def hamiltonian_matrix_str(printer, obj):
+    return (f"HamiltonianMatrix(size={obj.matrix.shape[0]}, conserved={obj.conserved}, "
+            f"blocks={[b.size for b in obj.blocks]})")
+
+
+def hamiltonian_matrix_latex(printer, obj, exp=None):
+    return printer._print(obj.matrix)
+
+
+def hamiltonian_matrix_pretty(printer, obj):
+    return printer._print(obj.matrix)
+
+
+def identity_check_latex(printer, obj, exp=None):
+    return text_latex(str(obj))
+
+
+def identity_check_pretty(printer, obj):
+    return prettyForm(str(obj))
+
+
+class NotationHooks:
+    """Mixin giving a class its three printing hooks from one stem of this module.
+
+    A class listed with it sets ``_notation_key``; ``_notation_key = "component"``
+    reaches ``component_str``, ``component_latex`` and ``component_pretty`` here,
+    so each object's notation is decided in this module only.
+    """
+
+    __slots__ = ()
+    _notation_key = None
+
+    def _sympystr(self, printer):
+        return globals()[f"{self._notation_key}_str"](printer, self)
+
+    def _latex(self, printer, exp=None):
+        return globals()[f"{self._notation_key}_latex"](printer, self, exp)
+
+    def _pretty(self, printer):
+        return globals()[f"{self._notation_key}_pretty"](printer, self)

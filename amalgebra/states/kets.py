@@ -1,0 +1,519 @@
+r"""Kets and bras :math:`|j\,m\rangle`, products over labels, linear combinations, inner products.
+
+Explanation
+===========
+
+A ket :math:`|j\,m\rangle_J` is a noncommutative SymPy ``Expr`` whose args are
+``(j, m, Str(label))``.  The label names the angular momentum the ket belongs to
+(``"J"``, ``"S"``, ``"I"``, ...); kets of different labels live in different
+spaces and are combined with :class:`ProductKet`, whose factors are sorted by
+label so that ``|a>_J |b>_S`` and ``|b>_S |a>_J`` are the same object.
+
+Linear combinations are ordinary SymPy sums, ``a*ket(1, 0) + b*ket(1, 1)``, so
+they print, substitute, differentiate and pickle like any SymPy expression.  The
+bra of a state is ``sympy.adjoint(state)`` (coefficients are conjugated, kets
+become :class:`Bra`); :meth:`Ket.dual` does the same for a single ket.
+
+Conventions: kets are orthonormal, :math:`\langle j' m'|j m\rangle =
+\delta_{j'j}\delta_{m'm}`.  For symbolic quantum numbers the deltas stay
+visible as ``KroneckerDelta``.
+
+Validation goes through :mod:`amalgebra.qnumbers`: ``j`` must be a nonnegative
+half-integer (or a symbolic expression not known to break that), ``j - m`` must
+be an integer (:class:`~amalgebra.errors.ProjectionError` otherwise) and, for
+numeric ``j`` and ``m``, ``|m| <= j`` is enforced at construction
+(:class:`~amalgebra.errors.QuantumNumberError`): a ket with ``|m| > j`` does not
+exist.  Operators that push ``m`` out of range give an exact zero instead (see
+:mod:`amalgebra.states.action`).
+
+Examples
+========
+
+>>> from sympy import Symbol, adjoint, sqrt
+>>> from amalgebra.states.kets import ket, inner, norm, product_ket
+>>> psi = (ket(1, 1) + ket(1, -1)) / sqrt(2)
+>>> inner(adjoint(psi), psi)
+1
+>>> j, m = Symbol("j"), Symbol("m")
+>>> inner(ket(j, m).dual(), ket(j, m - 1))
+0
+>>> inner(ket(j, Symbol("n")).dual(), ket(j, m))
+KroneckerDelta(m, n)
+>>> product_ket(ket("1/2", "1/2", "S"), ket(1, 0, "L"))
+|1, 0>_L|1/2, 1/2>_S
+>>> norm(3 * ket(2, 0) + 4 * ket(2, 1))
+5
+
+Parameters
+==========
+
+j, m : int, Rational, str such as ``"3/2"``, or a SymPy expression
+label : str, default ``"J"``
+
+See Also
+========
+
+amalgebra.states.action.apply, amalgebra.states.coupled.coupled_ket
+
+References
+==========
+
+.. [1] A. R. Edmonds, *Angular Momentum in Quantum Mechanics* (Princeton, 1957), ch. 2.
+"""
+
+import re
+from functools import lru_cache
+
+from sympy import Add, Basic, Expr, KroneckerDelta, Mul, S, adjoint, sqrt
+from sympy.core.symbol import Str
+
+from ..notation import NotationHooks
+from ..errors import NotNumericError, QuantumNumberError, ProjectionError, StateError
+from ..qnumbers import doubled, doubled_projection, is_numeric, quantum_number
+
+__all__ = [
+    "Ket",
+    "Bra",
+    "ProductKet",
+    "ProductBra",
+    "ket",
+    "bra",
+    "product_ket",
+    "tensor",
+    "components",
+    "from_components",
+    "inner",
+    "norm",
+    "normalize",
+]
+
+_LABEL = re.compile(r"^[A-Za-z][A-Za-z0-9_]*$")
+
+
+def _label(label):
+    if isinstance(label, Str):
+        label = label.name
+    if not isinstance(label, str) or _LABEL.match(label) is None:
+        raise StateError(f"label={label!r} must be a name such as 'J', 'S' or 'I1'")
+    return Str(label)
+
+
+@lru_cache(maxsize=4096)
+def _label_key(label):
+    """Natural order of labels: 'S2' before 'S10'."""
+    match = re.match(r"^(.*?)(\d*)$", label)
+    stem, digits = match.groups()
+    return (stem, int(digits) if digits else -1, label)
+
+
+def _validated(j, m, label):
+    """Validated (j, m, Str(label)) for a ket or bra."""
+    jj = quantum_number(j, "j", nonnegative=True)
+    if is_numeric(m):
+        mm = quantum_number(m, "m")
+    elif isinstance(m, Expr):
+        mm = m
+    else:
+        raise NotNumericError(f"m={m!r} must be a number or a SymPy expression")
+    if jj.is_Number and mm.is_Number:
+        tm = doubled_projection(doubled(jj, "j"), mm, "m", "j")
+        if abs(tm) > doubled(jj, "j"):
+            raise QuantumNumberError(f"m={mm} must satisfy |m| <= j={jj}")
+    elif (jj - mm).is_integer is False:
+        raise ProjectionError(f"m={mm} must differ from j={jj} by an integer")
+    return jj, mm, _label(label)
+
+
+class _DualState(NotationHooks):
+    """Shared behaviour of every ket or bra family: dual, adjoint and printing, written once.
+
+    A member supplies metadata: ``_notation_key``, the stem of its printing
+    hooks in :mod:`amalgebra.notation` (``"state"`` reaches ``state_str``,
+    ``state_latex``, ``state_pretty``), and its dual class, which
+    :func:`_dual_pair` records for both classes once both exist (in a table
+    rather than a class attribute, so that doctest does not collect the dual
+    class's examples twice).  ``dual`` builds the dual class from
+    :meth:`_dual_args` (the args themselves unless the member says
+    otherwise).  Listed before ``Expr``, so that these hooks win.
+    """
+
+    __slots__ = ()
+
+    def dual(self):
+        """The dual state (ket to bra, bra to ket) with the same quantum numbers."""
+        return _DUALS[type(self)](*self._dual_args())
+
+    def _dual_args(self):
+        return self.args
+
+    def _eval_adjoint(self):
+        return self.dual()
+
+
+_DUALS = {}
+
+
+def _dual_pair(ket_class, bra_class):
+    """Declare two :class:`_DualState` classes each other's dual."""
+    _DUALS[ket_class] = bra_class
+    _DUALS[bra_class] = ket_class
+
+
+class _StateMixin(_DualState):
+    """Shared behaviour of single kets and bras."""
+
+    __slots__ = ()
+    is_commutative = False
+    _notation_key = "state"
+
+    def __new__(cls, j, m, label="J"):
+        return Expr.__new__(cls, *_validated(j, m, label))
+
+    @property
+    def j(self):
+        return self.args[0]
+
+    @property
+    def m(self):
+        return self.args[1]
+
+    @property
+    def label(self):
+        """The label as a Python str."""
+        return self.args[2].name
+
+
+class Ket(_StateMixin, Expr):
+    r"""The ket :math:`|j\,m\rangle_{\mathrm{label}}`, an eigenstate of :math:`J^2` and :math:`J_z`.
+
+    Explanation
+    ===========
+
+    Args are ``(j, m, Str(label))``.  See the module docstring for validation
+    rules.  ``sympy.adjoint(ket)`` and :meth:`dual` give the :class:`Bra`.
+
+    Examples
+    ========
+
+    >>> from sympy import adjoint
+    >>> from amalgebra.states.kets import Ket
+    >>> k = Ket("3/2", "-1/2", "S")
+    >>> k, adjoint(k), k.func(*k.args) == k
+    (|3/2, -1/2>_S, <3/2, -1/2|_S, True)
+    """
+
+    __slots__ = ()
+
+    @classmethod
+    def _unchecked(cls, j, m, label):
+        """Internal: build from already validated SymPy numbers and a label str."""
+        return Expr.__new__(cls, j, m, Str(label))
+
+
+class Bra(_StateMixin, Expr):
+    r"""The bra :math:`\langle j\,m|_{\mathrm{label}}`, the dual of :class:`Ket`.
+
+    Examples
+    ========
+
+    >>> from sympy import adjoint
+    >>> from amalgebra.states.kets import Bra
+    >>> b = Bra(1, 0, "L")
+    >>> adjoint(b), adjoint(adjoint(b)) == b
+    (|1, 0>_L, True)
+    """
+
+    __slots__ = ()
+
+
+_dual_pair(Ket, Bra)
+
+
+def _factors(items, kind, name):
+    flat = []
+    for item in items:
+        if isinstance(item, kind):
+            flat.append(item)
+        elif isinstance(item, (ProductKet, ProductBra)) and isinstance(item.args[0], kind):
+            flat.extend(item.args)
+        else:
+            raise StateError(f"{name}={item} must be a {kind.__name__} or a product of them")
+    flat.sort(key=lambda k: _label_key(k.label))
+    labels = [k.label for k in flat]
+    if len(set(labels)) != len(labels):
+        raise StateError(f"labels={labels} must be distinct in a product state")
+    return flat
+
+
+class _ProductMixin(_DualState):
+    """Shared behaviour of product kets and bras: factors are duals one by one."""
+
+    __slots__ = ()
+    _notation_key = "product"
+    _factor_class = None
+
+    def __new__(cls, *factors):
+        flat = _factors(factors, cls._factor_class, cls._factor_class.__name__.lower())
+        if len(flat) == 1:
+            return flat[0]
+        return Expr.__new__(cls, *flat)
+
+    @property
+    def labels(self):
+        return tuple(f.label for f in self.args)
+
+    def _dual_args(self):
+        return [f.dual() for f in self.args]
+
+
+class ProductKet(_ProductMixin, Expr):
+    r"""The product :math:`|j_1 m_1\rangle_{L_1} |j_2 m_2\rangle_{L_2} \cdots` over distinct labels.
+
+    Explanation
+    ===========
+
+    Args are the :class:`Ket` factors sorted by label, so the product is
+    canonical: the order of construction does not matter.  A product of one
+    factor is that ket itself.
+
+    Examples
+    ========
+
+    >>> from amalgebra.states.kets import ProductKet, Ket
+    >>> a, b = Ket(1, 0, "S"), Ket(2, 1, "L")
+    >>> ProductKet(a, b) == ProductKet(b, a)
+    True
+    >>> ProductKet(a)
+    |1, 0>_S
+    """
+
+    __slots__ = ()
+    is_commutative = False
+    _factor_class = Ket
+
+    @classmethod
+    def _unchecked(cls, kets):
+        """Internal: product of validated kets with distinct labels (sorted here)."""
+        return Expr.__new__(cls, *sorted(kets, key=lambda k: _label_key(k.label)))
+
+
+class ProductBra(_ProductMixin, Expr):
+    r"""The product of bras over distinct labels, the dual of :class:`ProductKet`.
+
+    Examples
+    ========
+
+    >>> from sympy import adjoint
+    >>> from amalgebra.states.kets import ProductKet, Ket
+    >>> adjoint(ProductKet(Ket(1, 0, "S"), Ket(0, 0, "L")))
+    <0, 0|_L<1, 0|_S
+    """
+
+    __slots__ = ()
+    is_commutative = False
+    _factor_class = Bra
+
+
+_dual_pair(ProductKet, ProductBra)
+
+
+_KETS = (Ket, ProductKet)
+_BRAS = (Bra, ProductBra)
+
+
+def ket(j, m, label="J"):
+    """The ket ``|j m>_label`` (see :class:`Ket`).
+
+    >>> ket("1/2", "-1/2", "S")
+    |1/2, -1/2>_S
+    """
+    return Ket(j, m, label)
+
+
+def bra(j, m, label="J"):
+    """The bra ``<j m|_label`` (see :class:`Bra`).
+
+    >>> bra(1, 1)
+    <1, 1|_J
+    """
+    return Bra(j, m, label)
+
+
+def product_ket(*kets):
+    """The product of kets over distinct labels (see :class:`ProductKet`).
+
+    >>> product_ket(ket(1, 0, "L"), ket("1/2", "1/2", "S")).labels
+    ('L', 'S')
+    """
+    return ProductKet(*kets)
+
+
+def components(state, kinds=_KETS, name="state"):
+    """Return a linear combination of kets (or bras) as a dict ``{basis: coefficient}``.
+
+    The walk is linear: sums, commutative factors and the basis objects; keys
+    keep first-appearance order and coefficients that vanish identically are
+    dropped.  Anything else raises :class:`~amalgebra.errors.StateError`.
+
+    >>> from sympy import Symbol
+    >>> a = Symbol("a")
+    >>> components(a * (ket(1, 0) + ket(1, 1)) - a * ket(1, 1))
+    {|1, 0>_J: a}
+    """
+    parts = {}
+    _walk(state, S.One, parts, kinds, name)
+    out = {}
+    for basis, terms in parts.items():
+        coeff = Add(*terms)
+        if coeff != 0:
+            out[basis] = coeff
+    return out
+
+
+def _walk(expr, coeff, parts, kinds, name):
+    if isinstance(expr, kinds):
+        parts.setdefault(expr, []).append(coeff)
+    elif hasattr(expr, "_as_product_kets") and kinds == _KETS or hasattr(expr, "_as_product_bras") and kinds == _BRAS:
+        # coupled kets and bras enter through their product-ket expansion
+        expansion = expr._as_product_kets() if kinds == _KETS else expr._as_product_bras()
+        for basis, c in expansion.items():
+            parts.setdefault(basis, []).append(coeff * c)
+    elif isinstance(expr, Add):
+        for arg in expr.args:
+            _walk(arg, coeff, parts, kinds, name)
+    elif isinstance(expr, Mul):
+        c, nc = expr.args_cnc()
+        if len(nc) != 1:
+            raise StateError(f"{name}={expr} must be a linear combination of "
+                             f"{' or '.join(k.__name__ for k in kinds)} objects")
+        _walk(nc[0], coeff * Mul(*c), parts, kinds, name)
+    elif isinstance(expr, Basic) and expr.is_commutative and expr == 0:
+        return
+    else:
+        raise StateError(f"{name}={expr} must be a linear combination of "
+                         f"{' or '.join(k.__name__ for k in kinds)} objects")
+
+
+def from_components(parts):
+    """Rebuild ``sum(coefficient * basis)`` from a components dict, in its order.
+
+    >>> from_components({ket(1, 0): 2, ket(1, 1): 3}) == 2 * ket(1, 0) + 3 * ket(1, 1)
+    True
+    """
+    return Add(*[c * b for b, c in parts.items()])
+
+
+def tensor(*states):
+    """Tensor product of states over disjoint labels, distributed over sums.
+
+    >>> tensor(ket("1/2", "1/2", "A") + ket("1/2", "-1/2", "A"), ket(0, 0, "B"))
+    |1/2, -1/2>_A|0, 0>_B + |1/2, 1/2>_A|0, 0>_B
+    """
+    acc = {(): S.One}
+    for index, state in enumerate(states):
+        comp = components(state, name=f"states[{index}]")
+        nxt = {}
+        for basis, c in acc.items():
+            for b2, c2 in comp.items():
+                nxt[basis + (b2,)] = c * c2
+        acc = nxt
+    return Add(*[c * ProductKet(*basis) for basis, c in acc.items()])
+
+
+def _factor_map(basis):
+    """{label: (j, m)} of a basis ket or bra."""
+    factors = basis.args if isinstance(basis, (ProductKet, ProductBra)) else (basis,)
+    return {f.label: (f.j, f.m) for f in factors}
+
+
+def _basis_overlap(b, k):
+    fb, fk = _factor_map(b), _factor_map(k)
+    if sorted(fb) != sorted(fk):
+        raise StateError(f"bra={b} and ket={k} must carry the same labels, got {sorted(fb)} and {sorted(fk)}")
+    return Mul(*[KroneckerDelta(fb[lab][0], fk[lab][0]) * KroneckerDelta(fb[lab][1], fk[lab][1])
+                 for lab in sorted(fb)])
+
+
+def inner(bra_state, ket_state):
+    r"""The inner product :math:`\langle\phi|\psi\rangle` of a bra combination and a ket combination.
+
+    Explanation
+    ===========
+
+    Bilinear in its arguments; the bra already carries conjugated coefficients
+    (use ``sympy.adjoint(phi)``).  Basis overlaps are products of
+    ``KroneckerDelta(j', j) * KroneckerDelta(m', m)`` per label, which SymPy
+    evaluates to 0 or 1 when it can decide and keeps otherwise.  A ket given as
+    first argument is turned into its bra for convenience.
+
+    Examples
+    ========
+
+    >>> from sympy import Symbol, adjoint, I
+    >>> a = Symbol("a")
+    >>> psi = ket(1, 0) + I * a * ket(1, 1)
+    >>> inner(adjoint(psi), psi)
+    a*conjugate(a) + 1
+    >>> inner(bra(1, 0), ket(1, 1))
+    0
+
+    See Also
+    ========
+
+    norm
+    """
+    if not _is_bra_like(bra_state):
+        bra_state = adjoint(bra_state)
+    bras = components(bra_state, _BRAS, "bra")
+    kets = components(ket_state, _KETS, "ket")
+    numeric = {k: c for k, c in kets.items() if _is_numeric_basis(k)}
+    symbolic = [(k, c) for k, c in kets.items() if k not in numeric]
+    terms = []
+    for b, cb in bras.items():
+        if _is_numeric_basis(b):
+            # numeric bases are orthonormal: only the identical ket overlaps (labels checked below)
+            k = b.dual()
+            if k in numeric:
+                terms.append(cb * numeric[k])
+            elif numeric:
+                _basis_overlap(b, next(iter(numeric)))
+            pairs = symbolic
+        else:
+            pairs = list(kets.items())
+        terms.extend(cb * ck * _basis_overlap(b, k) for k, ck in pairs)
+    return Add(*terms)
+
+
+def _is_numeric_basis(basis):
+    return all(x.is_Rational for jm in _factor_map(basis).values() for x in jm)
+
+
+def _is_bra_like(state):
+    try:
+        components(state, _BRAS, "bra")
+    except StateError:
+        return False
+    return True
+
+
+def norm(state):
+    """The norm ``sqrt(<psi|psi>)`` of a ket combination.
+
+    >>> from sympy import sqrt
+    >>> norm(ket(1, 0) - ket(1, 1)) == sqrt(2)
+    True
+    """
+    value = inner(adjoint(state), state)
+    return sqrt(value)
+
+
+def normalize(state):
+    """The state divided by its norm; refuses the zero state.
+
+    >>> normalize(ket(0, 0) + ket(1, 0))
+    sqrt(2)*|0, 0>_J/2 + sqrt(2)*|1, 0>_J/2
+    """
+    n = norm(state)
+    if n == 0:
+        raise StateError(f"state={state} must be nonzero to be normalised")
+    return from_components({b: c / n for b, c in components(state).items()})

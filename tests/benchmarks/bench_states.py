@@ -1,0 +1,169 @@
+#!/usr/bin/env python3
+"""Benchmark of amalgebra.states: closed-form matrix elements and exact Hamiltonian matrices.
+
+Run: ``python tests/benchmarks/bench_states.py [--repeat N] [--no-baseline]``
+
+1. <j m'| (Jx^2 - Jy^2 + Jz Jx)^4 |j m>:
+   * preparation of the closed form in (j, m) (the action form; SymPy cache and our caches cleared);
+   * each exact element at j = 5, 50, 500 (m = 0, m' = 1), cache cleared before each, through the
+     public ``matrix_element`` and through ``ActionForm.amplitude``;
+   * the exact SymPy Matrix route of /work/shared/bench/matrix_elements_numeric.py
+     (``exact_operator(j)`` then three Matrix products), loaded with importlib and timed side by side
+     at j = 50; both values must agree.
+2. The exact 40 x 40 Hamiltonian A I.J + (g_J mu_B J_z + g_I mu_B I_z) B for I = 9/2, J = 3/2 in the
+   uncoupled basis, built and split into conserved-M blocks (cold).
+
+Prints one line per figure and the ratios the project asks for.
+"""
+
+import argparse
+import importlib.util
+import os
+import statistics
+import sys
+import time
+
+from sympy import Rational, expand, symbols
+from sympy.core.cache import clear_cache
+
+from amalgebra.algebra import AngularMomentum, dot
+from amalgebra.states.action import matrix_element
+from amalgebra.states.coupled import clear_caches as clear_coupled
+from amalgebra.states.hamiltonian import hamiltonian_matrix
+from amalgebra.states.kets import bra, ket
+from amalgebra.states.actionform import clear_caches as clear_shift
+from amalgebra.states.actionform import action_form
+
+BASELINE = "/work/shared/bench/matrix_elements_numeric.py"
+
+
+def cold():
+    clear_cache()
+    clear_shift()
+    clear_coupled()
+
+
+def timings(fn, repeat, reset=cold):
+    """(median, minimum) wall time of ``fn`` over ``repeat`` runs, ``reset`` before each run.
+
+    The minimum is the figure least disturbed by other processes (the timeit
+    advice); both are printed.
+    """
+    times = []
+    for _ in range(repeat):
+        reset()
+        t0 = time.perf_counter()
+        fn()
+        times.append(time.perf_counter() - t0)
+    return statistics.median(times), min(times)
+
+
+def median_time(fn, repeat, reset=cold):
+    return timings(fn, repeat, reset)[0]
+
+
+def load_baseline():
+    if not os.path.exists(BASELINE):
+        return None
+    spec = importlib.util.spec_from_file_location("matrix_elements_numeric", BASELINE)
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return module
+
+
+def baseline_element(module, j, row, col, k=4):
+    op, _ = module.exact_operator(Rational(j))
+    p = op
+    for _ in range(k - 1):
+        p = p * op
+    return expand(p[row, col])
+
+
+def main(argv=None):
+    parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
+    parser.add_argument("--repeat", type=int, default=7)
+    parser.add_argument("--no-baseline", action="store_true")
+    args = parser.parse_args(argv)
+
+    J = AngularMomentum("J")
+    op = (J.x ** 2 - J.y ** 2 + J.z * J.x) ** 4
+
+    # warm the imports once (module import time is not part of the figures)
+    action_form(op, ("J",))
+    prep, prep_min = timings(lambda: action_form(op, ("J",)), args.repeat)
+    print(f"prepare closed form of (Jx^2-Jy^2+JzJx)^4: median {prep * 1e3:.1f} ms, min {prep_min * 1e3:.1f} ms "
+          f"(target < 50 ms)")
+    action_form(op, ("J",), method="ladder")
+    prep_ladder, prep_ladder_min = timings(lambda: action_form(op, ("J",), method="ladder"), args.repeat)
+    print(f"  same through amalgebra.algebra.ladder_terms (method='ladder'): median {prep_ladder * 1e3:.1f} ms, "
+          f"min {prep_ladder_min * 1e3:.1f} ms")
+
+    form = action_form(op, ("J",))
+    jvalues = (5, 50, 500)
+    raw_public = {jv: [] for jv in jvalues}
+    raw_form = {jv: [] for jv in jvalues}
+    # interleaved: every round times each j once, so background load hits all j alike
+    for _ in range(args.repeat * 5):
+        for jv in jvalues:
+            clear_cache()
+            t0 = time.perf_counter()
+            matrix_element(bra(jv, 1), op, ket(jv, 0))
+            raw_public[jv].append(time.perf_counter() - t0)
+            clear_cache()
+            t0 = time.perf_counter()
+            form.amplitude((1,), {"J": (jv, 0)})
+            raw_form[jv].append(time.perf_counter() - t0)
+    per_public = {jv: (statistics.median(v), min(v)) for jv, v in raw_public.items()}
+    per_form = {jv: (statistics.median(v), min(v)) for jv, v in raw_form.items()}
+    for jv in jvalues:
+        print(f"element j={jv}: matrix_element median {per_public[jv][0] * 1e3:.3f} ms / min "
+              f"{per_public[jv][1] * 1e3:.3f} ms; ActionForm.amplitude median {per_form[jv][0] * 1e3:.3f} ms / min "
+              f"{per_form[jv][1] * 1e3:.3f} ms (SymPy cache cleared before each; target < 5 ms at j=50)")
+    for k, name in ((0, "median"), (1, "min")):
+        print(f"ratio t(j=500)/t(j=5) by {name}: matrix_element {per_public[500][k] / per_public[5][k]:.2f}, "
+              f"amplitude {per_form[500][k] / per_form[5][k]:.2f} (target <= 2)")
+
+    value = matrix_element(bra(50, 1), op, ket(50, 0))
+    if not args.no_baseline:
+        module = load_baseline()
+        if module is None:
+            print(f"baseline {BASELINE} not found: ratio not measured")
+        else:
+            clear_cache()
+            t0 = time.perf_counter()
+            ref = baseline_element(module, 50, row=49, col=50)
+            t_base = time.perf_counter() - t0
+            agree = expand(ref - value) == 0
+            print(f"baseline exact SymPy Matrix route j=50: {t_base:.2f} s; values agree: {agree}")
+            print(f"speed-up per element at j=50 (baseline / median element time): matrix_element "
+                  f"{t_base / per_public[50][0]:.0f}x, amplitude {t_base / per_form[50][0]:.0f}x (target >= 1000x)")
+            if not agree:
+                print("ERROR: values differ", ref, value)
+                return 1
+
+    A, gJ, gI, muB, B = symbols("A g_J g_I mu_B B", real=True)
+    Iop, Jop = AngularMomentum("I"), AngularMomentum("J")
+    ham = A * dot(Iop, Jop) + (gJ * muB * Jop.z + gI * muB * Iop.z) * B
+
+    result = {}
+
+    def build():
+        result["hm"] = hamiltonian_matrix(ham, {"I": Rational(9, 2), "J": Rational(3, 2)})
+
+    t_ham = median_time(build, max(1, args.repeat // 2))
+    hm = result["hm"]
+    sizes = [blk.size for blk in hm.blocks]
+    print(f"Hamiltonian I=9/2, J=3/2 ({hm.matrix.shape[0]}x{hm.matrix.shape[1]}), built and split into "
+          f"{len(sizes)} M blocks {sizes}: {t_ham:.3f} s (target < 5 s); conserved={hm.conserved}")
+
+    def build_coupled():
+        result["hc"] = hamiltonian_matrix(ham, {"I": Rational(9, 2), "J": Rational(3, 2)}, basis="coupled")
+
+    t_cpl = median_time(build_coupled, max(1, args.repeat // 3))
+    print(f"same Hamiltonian in the coupled |(I J) F M> basis (CG change of basis, exact): {t_cpl:.3f} s; "
+          f"conserved={result['hc'].conserved}")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
