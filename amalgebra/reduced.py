@@ -68,9 +68,10 @@ References
 .. [2] NIST DLMF chapter 34 (3j symbols), https://dlmf.nist.gov/34
 """
 
-from sympy import Abs, And, Eq, Expr, Le, Mod, S, Tuple, simplify, sqrt, sympify
+from sympy import Abs, And, Eq, Expr, Le, Mod, S, Tuple, simplify, sqrt
 from sympy.core.symbol import Str
 
+from ._validation import as_expression
 from .notation import NotationHooks
 from .coupling import cg, threej
 from .errors import ConventionError, QuantumNumberError, TensorOperatorError
@@ -121,7 +122,7 @@ def _rank(k, name="k"):
 
 def _sign(exponent):
     """(-1)**exponent, exact, for an integer (numeric or symbolic) exponent."""
-    exponent = sympify(exponent)
+    exponent = as_expression(exponent)
     if exponent.is_Integer:
         return S.NegativeOne if int(exponent) % 2 else S.One
     if exponent.is_number:
@@ -248,7 +249,7 @@ def wigner_eckart(jp, mp, k, q, j, m, reduced=None, *, name="T", convention="edm
     convention = check_convention(convention)
     if reduced is None:
         reduced = ReducedMatrixElement(name, k, jp, j, convention)
-    return wigner_eckart_factor(jp, mp, k, q, j, m, convention) * sympify(reduced)
+    return wigner_eckart_factor(jp, mp, k, q, j, m, convention) * as_expression(reduced)
 
 
 def reduced_from_element(element, jp, mp, k, q, j, m, convention="edmonds"):
@@ -269,7 +270,7 @@ def reduced_from_element(element, jp, mp, k, q, j, m, convention="edmonds"):
         raise QuantumNumberError(
             f"(jp, mp, k, q, j, m)=({jp}, {mp}, {k}, {q}, {j}, {m}) must have a nonzero "
             f"Wigner-Eckart factor to give the reduced matrix element")
-    return sympify(element) / factor
+    return as_expression(element) / factor
 
 
 def _values(j2):
@@ -296,7 +297,7 @@ def element_table(jp, k, j, reduced=None, *, name="T", convention="edmonds"):
         doubled(j, "j", nonnegative=True)
     if reduced is None:
         reduced = ReducedMatrixElement(name, S(k2) / 2, S(jp2) / 2, S(j2) / 2, convention)
-    reduced = sympify(reduced)
+    reduced = as_expression(reduced)
     table = {}
     for mp in _values(jp2):
         for m in _values(j2):
@@ -335,7 +336,7 @@ def reduced_from_table(table, jp, k, j, *, convention="edmonds"):
     get = table if callable(table) else (lambda mp, q, m: table.get((mp, q, m), S.Zero))
     if not callable(table):
         for key in sorted(table, key=str):
-            mp, q, m = (sympify(x) for x in key)
+            mp, q, m = (as_expression(x) for x in key)
             if (table[key] != 0 and (mp - m != q or abs(q) * 2 > k2 or abs(mp) * 2 > jp2
                                      or abs(m) * 2 > j2)):
                 raise TensorOperatorError(f"table[{key}]={table[key]} must vanish: it breaks "
@@ -348,7 +349,7 @@ def reduced_from_table(table, jp, k, j, *, convention="edmonds"):
             if abs(q) * 2 > k2 or (k2 - 2 * q) % 2:
                 continue
             factor = wigner_eckart_factor(S(jp2) / 2, mp, S(k2) / 2, q, S(j2) / 2, m, convention)
-            value = sympify(get(mp, q, m))
+            value = as_expression(get(mp, q, m))
             entries.append((factor, value, (mp, q, m)))
             if candidate is None and factor != 0 and value != 0:
                 candidate = value / factor
@@ -382,7 +383,7 @@ def convert_reduced(value, jp, j, from_convention, to_convention):
         check_convention(to_convention, "to_convention")
     jp = _j(jp, "jp")
     _j(j, "j")
-    value = sympify(value)
+    value = as_expression(value)
     if isinstance(value, ReducedMatrixElement) and value.convention != source:
         raise ConventionError(f"from_convention={source!r} must match the convention "
                               f"{value.convention!r} of value={value}")
@@ -432,7 +433,7 @@ def selection_rules(jp, mp, k, q, j, m, parity=None):
     if parity is not None:
         if not isinstance(parity, (tuple, list, Tuple)) or len(parity) != 3:
             raise TypeError(f"parity={parity!r} must be a triple (pi', pi_T, pi)")
-        bra_p, op_p, ket_p = (sympify(p) for p in parity)
+        bra_p, op_p, ket_p = (as_expression(p) for p in parity)
         for label, p in (("pi'", bra_p), ("pi_T", op_p), ("pi", ket_p)):
             if p.is_number and p not in (1, -1):
                 raise QuantumNumberError(f"parity {label}={p} must be +1 or -1")

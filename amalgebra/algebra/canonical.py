@@ -153,7 +153,7 @@ def _values(mapping, name):
         if not isinstance(label, str):
             raise OperatorError(f"{name} key {label!r} must be a label str")
         try:
-            value = _sympify(value)
+            value = _sympify(value)  # safe: strict conversion, a str raises SympifyError
         except Exception as exc:  # SympifyError: strings are never parsed
             raise OperatorError(f"{name}[{label!r}]={value!r} must be a SymPy expression or number") from exc
         if not isinstance(value, Expr) or value.is_commutative is False:

@@ -79,8 +79,9 @@ References
 .. [1] A. R. Edmonds, *Angular Momentum in Quantum Mechanics*, Princeton (1957), section 7.1.
 """
 
-from sympy import Add, S, sqrt, sympify
+from sympy import Add, S, sqrt
 
+from .._validation import as_expression
 from ..coupling import ninej, sixj
 from ..errors import QuantumNumberError
 from ..qnumbers import quantum_number, triangle
@@ -105,7 +106,7 @@ def _js(values, names):
 
 
 def _sign(exponent):
-    exponent = sympify(exponent)
+    exponent = as_expression(exponent)
     if exponent.is_Integer:
         return S.NegativeOne if int(exponent) % 2 else S.One
     return S.NegativeOne ** exponent
@@ -120,7 +121,7 @@ def _check_couplings(j1, j2, J, name):
 def _default(reduced, name, k, jp, j, convention):
     if reduced is None:
         return ReducedMatrixElement(name, k, jp, j, convention)
-    return sympify(reduced)
+    return as_expression(reduced)
 
 
 def _to_edmonds(value, jp, j, convention):
@@ -298,7 +299,7 @@ def reduced_product_same_space(jp, j, k1, k2, k, intermediate, *, convention="ed
     terms = []
     for key in sorted(intermediate, key=lambda x: quantum_number(x, "j''", nonnegative=True)):
         jpp = quantum_number(key, "j''", nonnegative=True)
-        red1, red2 = (sympify(x) for x in intermediate[key])
+        red1, red2 = (as_expression(x) for x in intermediate[key])
         red1 = _to_edmonds(red1, jp, jpp, convention)
         red2 = _to_edmonds(red2, jpp, j, convention)
         terms.append(sixj(k1, k2, k, j, jp, jpp) * red1 * red2)
@@ -360,7 +361,7 @@ def projected_reduced(j, jdotv, convention="edmonds"):
     j = quantum_number(j, "j", nonnegative=True)
     if j == 0:
         raise QuantumNumberError("j=0 must be positive: the projection theorem divides by j(j+1)")
-    return sympify(jdotv) * angular_momentum_reduced(j, convention) / (j * (j + 1))
+    return as_expression(jdotv) * angular_momentum_reduced(j, convention) / (j * (j + 1))
 
 
 def projection_theorem(j, mp, q, m, jdotv):

@@ -63,8 +63,9 @@ References
 
 from fractions import Fraction
 
-from sympy import Add, I, Mul, Pow, Rational, S, Symbol, expand, sqrt, sympify
+from sympy import Add, I, Mul, Pow, Rational, S, Symbol, expand, sqrt
 
+from .._validation import as_expression
 from ..algebra import canonical
 from ..algebra.operators import AngularMomentumComponent
 from ..errors import OperatorError, TensorOperatorError
@@ -172,7 +173,7 @@ def _cartesian(fam, axis):
 def _words(expr, atoms):
     """The expression as {word: [coefficient terms]} in the free algebra of spherical atoms."""
     out = {}
-    for term in Add.make_args(expand(sympify(expr))):
+    for term in Add.make_args(expand(as_expression(expr))):
         commutative, noncommutative = term.args_cnc()
         scalars = []
         expansions = []

@@ -50,8 +50,9 @@ References
 .. [2] D. M. Brink and G. R. Satchler, *Angular Momentum*, 3rd ed. (1993), ch. 4 (vector products).
 """
 
-from sympy import Add, Basic, I, Mul, S, Tuple, expand, sqrt, sympify
+from sympy import Add, Basic, I, Mul, S, Tuple, expand, sqrt
 
+from .._validation import as_expression
 from ..notation import NotationHooks
 from ..algebra.operators import AngularMomentum
 from ..coupling import cg
@@ -95,7 +96,7 @@ class TensorComponents(NotationHooks, Basic):
 
     def __new__(cls, k, components):
         k = half_integer(k, "k", nonnegative=True)
-        components = tuple(sympify(c) for c in components)
+        components = tuple(as_expression(c) for c in components)
         if len(components) != int(2 * k) + 1:
             raise QuantumNumberError(f"components={len(components)} must number 2k+1={int(2 * k) + 1}")
         return Basic.__new__(cls, k, Tuple(*components))
@@ -185,7 +186,7 @@ def spherical_components(value, name="value"):
     if callable(spherical):
         return spherical()
     if isinstance(value, (tuple, list, Tuple)) and len(value) == 3:
-        return TensorComponents(1, cartesian_to_spherical(*(sympify(v) for v in value)))
+        return TensorComponents(1, cartesian_to_spherical(*(as_expression(v) for v in value)))
     raise OperatorError(f"{name}={value!r} must be a tensor (TensorComponents, AngularMomentum, "
                         f"SphericalTensor, VectorOperator) or three Cartesian components")
 

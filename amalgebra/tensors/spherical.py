@@ -70,9 +70,10 @@ References
 .. [2] A. R. Edmonds, *Angular Momentum in Quantum Mechanics*, Princeton (1957), ch. 5.
 """
 
-from sympy import Basic, Expr, I, Integer, Matrix, S, sqrt, sympify
+from sympy import Basic, Expr, I, Integer, Matrix, S, sqrt
 from sympy.core.symbol import Str
 
+from .._validation import as_expression
 from ..algebra.operators import AngularMomentumComponent
 from ..notation import NotationHooks
 from ..coupling import threej
@@ -368,7 +369,7 @@ def tensor_matrix(tensor, q, js, *, reduced=None, convention="edmonds"):
     basis = _space(js)
     table = None
     if reduced is not None:
-        table = {(half_integer(a, "jp"), half_integer(b, "j")): sympify(v) for (a, b), v in reduced.items()}
+        table = {(half_integer(a, "jp"), half_integer(b, "j")): as_expression(v) for (a, b), v in reduced.items()}
     n = len(basis)
     entries = {}
     for r, (jp, mp) in enumerate(basis):

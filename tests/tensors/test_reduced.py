@@ -250,3 +250,14 @@ def test_symbolic_j_stays_symbolic():
                                                                    Symbol("R"))) == 0
     # the conjugate of a reduced element is not known in general: it stays unevaluated
     assert isinstance(conjugate(ReducedMatrixElement("T", 1, 2, 1)), conjugate)
+
+
+def test_text_is_never_parsed_as_a_reduced_element(tmp_path, monkeypatch):
+    # Safety rule: strings are data, never code; text is refused with a typed error.
+    from amalgebra.errors import NotNumericError
+    from amalgebra.reduced import wigner_eckart
+
+    marker = tmp_path / "ran"
+    with pytest.raises(NotNumericError, match="not text"):
+        wigner_eckart(1, 0, 1, 0, 1, 0, f"__import__('pathlib').Path({str(marker)!r}).touch()")
+    assert not marker.exists()
