@@ -64,16 +64,15 @@ References
 .. [1] J. J. Sakurai, *Modern Quantum Mechanics* (1994), eqs. (2.3.16)-(2.3.17).
 """
 
-from fractions import Fraction
 
-from sympy import Add, Basic, Expr, KroneckerDelta, Mul, S, Tuple, adjoint, sqrt
+from sympy import Add, Expr, KroneckerDelta, Mul, S, Tuple, adjoint, sqrt
 from sympy.core.symbol import Str
 
 from ..algebra.convert import kernel_of
 from ..algebra.operators import _check_label
 from ..errors import NotNumericError, OperatorError, QuantumNumberError, StateError
 from ..qnumbers import doubled, is_numeric
-from ..states.kets import _DualState, _dual_pair
+from ..states.kets import _DualState, _dual_pair, components
 from .operators import BOSON
 
 __all__ = ["FockKet", "FockBra", "fock_ket", "fock_bra", "vacuum", "occupation", "fock_components",
@@ -269,33 +268,7 @@ def fock_components(state, kind=FockKet, name="state"):
     StateError
         When ``state`` is not a linear combination of ``kind`` objects.
     """
-    parts = {}
-    _walk(state, S.One, parts, kind, name)
-    out = {}
-    for basis, terms in parts.items():
-        coeff = Add(*terms)
-        if coeff != 0:
-            out[basis] = coeff
-    return out
-
-
-def _walk(expr, coeff, parts, kind, name):
-    if isinstance(expr, kind):
-        parts.setdefault(expr, []).append(coeff)
-    elif isinstance(expr, Add):
-        for arg in expr.args:
-            _walk(arg, coeff, parts, kind, name)
-    elif isinstance(expr, Mul):
-        c, nc = expr.args_cnc()
-        if len(nc) != 1:
-            raise StateError(f"{name}={expr} must be a linear combination of {kind.__name__} objects")
-        _walk(nc[0], coeff * Mul(*c), parts, kind, name)
-    elif isinstance(expr, (int, Fraction)) and not isinstance(expr, bool) and expr == 0:
-        return
-    elif isinstance(expr, Basic) and expr.is_commutative and expr == 0:
-        return
-    else:
-        raise StateError(f"{name}={expr!r} must be a linear combination of {kind.__name__} objects")
+    return components(state, (kind,), name)
 
 
 def fock_inner(bra_state, ket_state):

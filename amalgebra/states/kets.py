@@ -62,6 +62,7 @@ References
 """
 
 import re
+from fractions import Fraction
 from functools import lru_cache
 
 from sympy import Add, Basic, Expr, KroneckerDelta, Mul, S, adjoint, sqrt
@@ -388,6 +389,8 @@ def _walk(expr, coeff, parts, kinds, name):
                              f"{' or '.join(k.__name__ for k in kinds)} objects")
         _walk(nc[0], coeff * Mul(*c), parts, kinds, name)
     elif isinstance(expr, Basic) and expr.is_commutative and expr == 0:
+        return
+    elif isinstance(expr, (int, Fraction)) and not isinstance(expr, bool) and expr == 0:
         return
     else:
         raise StateError(f"{name}={expr} must be a linear combination of "

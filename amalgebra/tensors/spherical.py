@@ -102,6 +102,15 @@ def _label(label, name="label"):
     return label
 
 
+def _hermitian_flag(hermitian):
+    """The args form of a Hermitian flag: ``"hermitian"`` or ``"general"``."""
+    herm = hermitian.name if isinstance(hermitian, Str) else (
+        ("hermitian" if hermitian else "general") if isinstance(hermitian, bool) else None)
+    if herm not in ("hermitian", "general"):
+        raise OperatorError(f"hermitian={hermitian!r} must be True or False")
+    return herm
+
+
 class SphericalTensor(NotationHooks, Basic):
     r"""A family of spherical tensor components :math:`T^k_q` under the angular momentum ``label``.
 
@@ -149,14 +158,7 @@ class SphericalTensor(NotationHooks, Basic):
             raise OperatorError(f"kind={kind!r} must be one of {', '.join(KINDS)}")
         if kind == "racah" and not k.is_integer:
             raise QuantumNumberError(f"k={k} must be an integer for the Racah tensor C^k")
-        if isinstance(hermitian, Str):
-            herm = hermitian.name
-        elif isinstance(hermitian, bool):
-            herm = "hermitian" if hermitian else "general"
-        else:
-            herm = None
-        if herm not in ("hermitian", "general"):
-            raise OperatorError(f"hermitian={hermitian!r} must be True or False")
+        herm = _hermitian_flag(hermitian)
         return Basic.__new__(cls, Str(name), k, Str(label), Str(kind), Str(herm))
 
     name = property(lambda self: self.args[0].name, doc="The name of the family.")

@@ -57,7 +57,7 @@ from ..algebra.operators import AngularMomentumComponent
 from ..notation import NotationHooks
 from ..errors import OperatorError, TensorOperatorError
 from .products import TensorComponents, cartesian_to_spherical
-from .spherical import _label
+from .spherical import _hermitian_flag, _label
 
 __all__ = ["VectorOperator", "VectorComponent", "vector_commutator"]
 
@@ -93,14 +93,7 @@ class VectorOperator(NotationHooks, Basic):
     _notation_key = "vector_operator"
 
     def __new__(cls, name, label="J", hermitian=True):
-        if isinstance(hermitian, Str):
-            herm = hermitian.name
-        elif isinstance(hermitian, bool):
-            herm = "hermitian" if hermitian else "general"
-        else:
-            herm = None
-        if herm not in ("hermitian", "general"):
-            raise OperatorError(f"hermitian={hermitian!r} must be True or False")
+        herm = _hermitian_flag(hermitian)
         return Basic.__new__(cls, Str(_label(name, "name")), Str(_label(label)), Str(herm))
 
     name = property(lambda self: self.args[0].name, doc="The name.")
