@@ -61,7 +61,7 @@ _SOURCES = {
     "qnumbers": ["half_integer", "triangle"],
     "coupling": [
         "cg", "threej", "sixj", "ninej", "racah_w", "cg_float", "threej_float",
-        "sixj_float", "ninej_float", "clear_coupling_caches", "coupling_cache_info",
+        "sixj_float", "ninej_float", "clear_coupling_caches", "coupling_cache_info", "kernel_backend",
         "ClebschGordanSymbol", "ThreeJSymbol", "SixJSymbol", "NineJSymbol",
     ],
     "coupling.closed_forms": ["closed_form_conditions"],

@@ -12,8 +12,8 @@ Correctly rounded floats computed from the exact values
 Caches (bounded LRU on canonical keys under the 72/144/72 symmetries)
     :func:`clear_coupling_caches`, :func:`coupling_cache_info`
     (:mod:`amalgebra.coupling.symmetry`)
-Integer kernels (no SymPy)
-    :mod:`amalgebra.coupling.kernels`
+Integer kernels (no SymPy); which 6j kernel runs (compiled GMP or pure Python)
+    :mod:`amalgebra.coupling.kernels`, :func:`kernel_backend`
 Closed forms for symbolic arguments
     :mod:`amalgebra.coupling.closed_forms`
 Unevaluated symbols (printed in standard notation, evaluated by ``doit()``)
@@ -23,6 +23,7 @@ Unevaluated symbols (printed in standard notation, evaluated by ``doit()``)
 
 from .coefficients import cg, ninej, racah_w, sixj, threej
 from .floats import cg_float, ninej_float, sixj_float, threej_float
+from .kernels import kernel_backend
 from .symbols import ClebschGordanSymbol, NineJSymbol, SixJSymbol, ThreeJSymbol
 from .symmetry import clear_coupling_caches, coupling_cache_info
 
@@ -38,6 +39,7 @@ __all__ = [
     "ninej_float",
     "clear_coupling_caches",
     "coupling_cache_info",
+    "kernel_backend",
     "ClebschGordanSymbol",
     "ThreeJSymbol",
     "SixJSymbol",

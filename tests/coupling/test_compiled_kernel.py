@@ -1,0 +1,158 @@
+"""The optional compiled 6j kernel (C + GMP) against the pure-Python kernel and an independent reference.
+
+The compiled kernel must give the *identical* canonical triple as
+``kernels.sixj_kernel_sorted_python`` for every input, and both must agree with
+``racah_reference.ref_sixj_sq`` (Racah's formula in Fractions, Edmonds 1957 eq. 6.3.7).
+Locally the tests skip when the extension was not built; under ``CI=true`` its
+absence is a failure (``.ci/run`` installs GMP's headers so that it builds).
+"""
+
+import importlib.util
+import itertools
+import math
+import pathlib
+from fractions import Fraction
+from importlib import import_module
+
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from amalgebra.coupling import kernels, sixj
+from amalgebra.testing.external import require_tool
+
+_spec = importlib.util.spec_from_file_location("coupling_racah_reference_c",
+                                               pathlib.Path(__file__).with_name("racah_reference.py"))
+_reference = importlib.util.module_from_spec(_spec)
+_spec.loader.exec_module(_reference)
+ref_sixj_sq = _reference.ref_sixj_sq
+
+
+def compiled():
+    module = kernels._compiled
+    require_tool(module is not None, "the compiled 6j kernel (a C compiler and libgmp-dev at install time)")
+    return module
+
+
+def valid_sixj(t1, t2, t4, data):
+    """Draw a 6j (doubled) obeying every triangle rule, or None."""
+    t3 = data.draw(st.sampled_from(range(abs(t1 - t2), t1 + t2 + 1, 2)))
+    t5 = data.draw(st.sampled_from(range(abs(t4 - t3), t4 + t3 + 1, 2)))
+    lo, hi = max(abs(t1 - t5), abs(t4 - t2)), min(t1 + t5, t4 + t2)
+    t6s = [t for t in range(lo, hi + 1) if (t1 + t5 + t) % 2 == 0 and (t4 + t2 + t) % 2 == 0]
+    if not t6s:
+        return None
+    return t1, t2, t3, t4, t5, data.draw(st.sampled_from(t6s))
+
+
+def sorted_key(tj):
+    alpha, beta = kernels._sixj_sums(*tj)
+    return (*sorted(alpha), *sorted(beta))
+
+
+def signed_square(triple):
+    n, d, s = triple
+    return Fraction(n * abs(n) * s, d * d)
+
+
+def test_backend_is_reported():
+    assert kernels.kernel_backend() == ("python" if kernels._compiled is None else "compiled (GMP)")
+
+
+def test_compiled_kernel_is_built():
+    compiled()
+
+
+@settings(max_examples=150, deadline=None)
+@given(st.integers(0, 160), st.integers(0, 160), st.integers(0, 160), st.data())
+def test_compiled_equals_python_kernel(t1, t2, t4, data):
+    module = compiled()
+    tj = valid_sixj(t1, t2, t4, data)
+    if tj is None:
+        return
+    key = sorted_key(tj)
+    got = module.sixj_sorted(*key)
+    assert got == kernels.sixj_kernel_sorted_python(*key)
+    n, d, s = got
+    assert d > 0 and math.gcd(n, d) == 1  # canonical form (design.md)
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.integers(0, 24), st.integers(0, 24), st.integers(0, 24), st.data())
+def test_compiled_kernel_against_racah_formula(t1, t2, t4, data):
+    # Racah's single sum in Fractions, Edmonds (1957) eq. 6.3.7 (racah_reference.py, independent of amalgebra).
+    module = compiled()
+    tj = valid_sixj(t1, t2, t4, data)
+    if tj is None:
+        return
+    got = module.sixj_sorted(*sorted_key(tj))
+    assert signed_square(got) == ref_sixj_sq(*tj)
+    n, d, s = got
+    assert all(s % (p * p) for p in range(2, math.isqrt(s) + 1))  # s squarefree
+
+
+@pytest.mark.parametrize("a, b, c", [(1, 1, 2), (3, 2, 3), (40, 38, 30), (99, 100, 101)])
+def test_published_values_through_the_compiled_route(a, b, c):
+    # {a b c; 0 c b} = (-1)^(a+b+c) / sqrt((2b+1)(2c+1)), Edmonds (1957) eq. 6.3.2 (number from memory);
+    # a, b, c doubled here.
+    module = compiled()
+    got = module.sixj_sorted(*sorted_key((a, b, c, 0, c, b)))
+    sign = -1 if (a + b + c) // 2 % 2 else 1
+    assert signed_square(got) == Fraction(sign, (b + 1) * (c + 1))
+
+
+def test_argument_checks():
+    module = compiled()
+    with pytest.raises(ValueError, match="a1<=a2<=a3<=a4"):
+        module.sixj_sorted(3, 2, 3, 3, 4, 4, 4)
+    with pytest.raises(OverflowError):
+        module.sixj_sorted(0, 0, 0, 0, module.TOP_LIMIT, module.TOP_LIMIT, module.TOP_LIMIT)
+
+
+def test_beyond_the_table_falls_back_to_python(monkeypatch):
+    # Above the compiled table the dispatcher must take the Python kernel; force that with a tiny limit.
+    compiled()
+    key = sorted_key((40, 38, 30, 36, 34, 28))
+    expected = kernels.sixj_kernel_sorted_python(*key)
+    monkeypatch.setattr(kernels, "_COMPILED_TOP", 10)
+    assert kernels.sixj_kernel_sorted(*key) == expected
+
+
+def test_clear_and_regrow_tables():
+    module = compiled()
+    key = sorted_key((100, 100, 100, 100, 100, 100))
+    first = module.sixj_sorted(*key)
+    kernels.clear_tables()
+    assert module.sixj_sorted(*key) == first == kernels.sixj_kernel_sorted_python(*key)
+
+
+def test_pure_python_switch_is_honoured(monkeypatch):
+    # AMALGEBRA_PURE_PYTHON=1 at import time disables the compiled kernel (documented in kernels.py).
+    monkeypatch.setenv("AMALGEBRA_PURE_PYTHON", "1")
+    assert kernels._load_compiled() is None
+    monkeypatch.setenv("AMALGEBRA_PURE_PYTHON", "0")
+    built = importlib.util.find_spec("amalgebra.coupling._racah6j") is not None
+    assert kernels._load_compiled() is (import_module("amalgebra.coupling._racah6j") if built else None)
+
+
+@pytest.mark.slow
+def test_exhaustive_small_and_large_sweeps():
+    module = compiled()
+    # every 6j with all j <= 6 (doubled <= 12)
+    for tj in itertools.product(range(13), repeat=6):
+        if not all(kernels_triangle(*t) for t in ((tj[0], tj[1], tj[2]), (tj[0], tj[4], tj[5]),
+                                                    (tj[3], tj[1], tj[5]), (tj[3], tj[4], tj[2]))):
+            continue
+        key = sorted_key(tj)
+        assert module.sixj_sorted(*key) == kernels.sixj_kernel_sorted_python(*key)
+    # j up to about 1000 (factorial arguments near the table limit)
+    for tj in ((2000, 2000, 2000, 2000, 2000, 2000), (1999, 1001, 1000, 1500, 1200, 1701),
+               (1800, 1700, 300, 1750, 1650, 200)):
+        assert all(kernels_triangle(*t) for t in ((tj[0], tj[1], tj[2]), (tj[0], tj[4], tj[5]),
+                                                    (tj[3], tj[1], tj[5]), (tj[3], tj[4], tj[2])))
+        key = sorted_key(tj)
+        assert module.sixj_sorted(*key) == kernels.sixj_kernel_sorted_python(*key)
+
+
+def kernels_triangle(a, b, c):
+    return (a + b + c) % 2 == 0 and abs(a - b) <= c <= a + b
