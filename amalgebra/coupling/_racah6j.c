@@ -1,8 +1,8 @@
 /*
- * Optional compiled kernel for the Wigner 6j symbol (amalgebra.coupling._racah6j).
+ * Optional compiled kernels for the Wigner 3j and 6j symbols (amalgebra.coupling._racah6j).
  *
- * Same mathematics and same output as the pure-Python kernel
- * amalgebra.coupling.kernels.sixj_kernel_sorted: Racah's single sum by a Horner
+ * Same mathematics and same output as the pure-Python kernels
+ * amalgebra.coupling.kernels.threej_kernel_python and sixj_kernel_sorted_python: Racah's single sum by a Horner
  * scheme on the ratio of consecutive terms (one integer P, no division), and the
  * radicand as an exponent vector over the primes, summed from a table of the
  * exponent vectors of n! (Legendre).  The canonical triple (n, d, s) means
@@ -141,11 +141,120 @@ static PyObject *mpz_to_pylong(const mpz_t x)
     return out;
 }
 
+/* The canonical triple of P * sqrt(prod p^acc[i]) over the first `length` primes. */
+static PyObject *finish(const long *acc, long length)
+{
+    long i;
+    PyObject *n_obj, *d_obj, *s_obj;
+    mpz_set(NUM, P);
+    mpz_set_ui(DEN, 1);
+    mpz_set_ui(SQF, 1);
+    for (i = 0; i < length; i++) {
+        long e = acc[i], half = e >> 1;  /* arithmetic shift: floor(e / 2) */
+        unsigned long p = (unsigned long)primes[i];
+        if (e & 1)
+            mpz_mul_ui(SQF, SQF, p);
+        if (half > 0)
+            mul_prime_power(NUM, p, half);
+        else if (half < 0)
+            mul_prime_power(DEN, p, -half);
+    }
+    mpz_gcd(G, NUM, DEN);
+    if (mpz_cmp_ui(G, 1) != 0) {
+        mpz_divexact(NUM, NUM, G);
+        mpz_divexact(DEN, DEN, G);
+    }
+    n_obj = mpz_to_pylong(NUM);
+    d_obj = n_obj ? mpz_to_pylong(DEN) : NULL;
+    s_obj = d_obj ? mpz_to_pylong(SQF) : NULL;
+    if (!s_obj) {
+        Py_XDECREF(n_obj);
+        Py_XDECREF(d_obj);
+        return NULL;
+    }
+    return Py_BuildValue("(NNN)", n_obj, d_obj, s_obj);
+}
+
+/* P *= a * b * c for nonnegative factors below TOP_LIMIT. */
+static void mul3(mpz_t target, long a, long b, long c)
+{
+#if ULONG_MAX > 0xFFFFFFFFUL
+    mpz_mul_ui(target, target, (unsigned long)a * (unsigned long)b * (unsigned long)c);
+#else
+    mpz_mul_ui(target, target, (unsigned long)a * (unsigned long)b);
+    mpz_mul_ui(target, target, (unsigned long)c);
+#endif
+}
+
+static PyObject *threej(PyObject *self, PyObject *args)
+{
+    long tj1, tj2, tj3, tm1, tm2, tm3, big, b1, b2, b3, c1, c2, kmin, kmax, k;
+    long acc[TOP_LIMIT];
+    (void)self;
+    if (!PyArg_ParseTuple(args, "llllll", &tj1, &tj2, &tj3, &tm1, &tm2, &tm3))
+        return NULL;
+    /* selection rules are the caller's job; check only what keeps the arithmetic in range */
+    if (tj1 < 0 || tj2 < 0 || tj3 < 0 || labs(tm1) > tj1 || labs(tm2) > tj2 || labs(tm3) > tj3
+            || tm1 + tm2 + tm3 != 0 || (tj1 + tj2 + tj3) & 1 || (tj1 + tm1) & 1 || (tj2 + tm2) & 1
+            || (tj3 + tm3) & 1 || tj3 > tj1 + tj2 || tj3 < labs(tj1 - tj2)) {
+        PyErr_SetString(PyExc_ValueError, "threej needs doubled arguments obeying every selection rule");
+        return NULL;
+    }
+    big = (tj1 + tj2 + tj3) / 2 + 1;
+    if (big > TOP_LIMIT) {
+        PyErr_SetString(PyExc_OverflowError, "factorial argument beyond the compiled table");
+        return NULL;
+    }
+    if (ensure_tables((int)big) < 0)
+        return PyErr_NoMemory();
+    b1 = (tj1 + tj2 - tj3) / 2;
+    b2 = (tj1 - tm1) / 2;
+    b3 = (tj2 + tm2) / 2;
+    c1 = (tj3 - tj2 + tm1) / 2;
+    c2 = (tj3 - tj1 - tm2) / 2;
+    kmin = 0;
+    if (-c1 > kmin) kmin = -c1;
+    if (-c2 > kmin) kmin = -c2;
+    kmax = b1 < b2 ? b1 : b2;
+    if (b3 < kmax) kmax = b3;
+    if (kmin > kmax)
+        return Py_BuildValue("(iii)", 0, 1, 1);
+    /* Racah's 3j sum over k = kmax-1 .. kmin (Horner on the ratio of consecutive terms) */
+    mpz_set_ui(P, 1);
+    mpz_set_ui(Q, 1);
+    for (k = kmax - 1; k >= kmin; k--) {
+        mul3(Q, k + 1, c1 + k + 1, c2 + k + 1);
+        mul3(P, b1 - k, b2 - k, b3 - k);
+        mpz_sub(P, Q, P);
+    }
+    if (mpz_sgn(P) == 0)
+        return Py_BuildValue("(iii)", 0, 1, 1);
+    if ((((tj1 - tj2 - tm3) / 2 + kmin) % 2 + 2) % 2)
+        mpz_neg(P, P);
+    memset(acc, 0, sizeof(long) * (size_t)pi_count[big]);
+    add_row(acc, (int)b1, 1);
+    add_row(acc, (int)((tj1 - tj2 + tj3) / 2), 1);
+    add_row(acc, (int)((tj2 + tj3 - tj1) / 2), 1);
+    add_row(acc, (int)big, -1);
+    add_row(acc, (int)b2, 1);
+    add_row(acc, (int)((tj1 + tm1) / 2), 1);
+    add_row(acc, (int)((tj2 - tm2) / 2), 1);
+    add_row(acc, (int)b3, 1);
+    add_row(acc, (int)((tj3 - tm3) / 2), 1);
+    add_row(acc, (int)((tj3 + tm3) / 2), 1);
+    add_row(acc, (int)kmax, -2);
+    add_row(acc, (int)(c1 + kmax), -2);
+    add_row(acc, (int)(c2 + kmax), -2);
+    add_row(acc, (int)(b1 - kmin), -2);
+    add_row(acc, (int)(b2 - kmin), -2);
+    add_row(acc, (int)(b3 - kmin), -2);
+    return finish(acc, pi_count[big]);
+}
+
 static PyObject *sixj_sorted(PyObject *self, PyObject *args)
 {
-    long a1, a2, a3, a4, e1, e2, e3, u, f1, f2, f3, i, length;
+    long a1, a2, a3, a4, e1, e2, e3, u, f1, f2, f3, length;
     long acc[TOP_LIMIT];  /* pi(4096) = 564 entries suffice; generous and on the stack */
-    PyObject *n_obj, *d_obj, *s_obj;
     (void)self;
     if (!PyArg_ParseTuple(args, "lllllll", &a1, &a2, &a3, &a4, &e1, &e2, &e3))
         return NULL;
@@ -201,33 +310,7 @@ static PyObject *sixj_sorted(PyObject *self, PyObject *args)
     add_row(acc, (int)(e3 - a3), 1);
     add_row(acc, (int)(e3 - a4), -1);
 
-    mpz_set(NUM, P);
-    mpz_set_ui(DEN, 1);
-    mpz_set_ui(SQF, 1);
-    for (i = 0; i < length; i++) {
-        long e = acc[i], half = e >> 1;  /* arithmetic shift: floor(e / 2) */
-        unsigned long p = (unsigned long)primes[i];
-        if (e & 1)
-            mpz_mul_ui(SQF, SQF, p);
-        if (half > 0)
-            mul_prime_power(NUM, p, half);
-        else if (half < 0)
-            mul_prime_power(DEN, p, -half);
-    }
-    mpz_gcd(G, NUM, DEN);
-    if (mpz_cmp_ui(G, 1) != 0) {
-        mpz_divexact(NUM, NUM, G);
-        mpz_divexact(DEN, DEN, G);
-    }
-    n_obj = mpz_to_pylong(NUM);
-    d_obj = n_obj ? mpz_to_pylong(DEN) : NULL;
-    s_obj = d_obj ? mpz_to_pylong(SQF) : NULL;
-    if (!s_obj) {
-        Py_XDECREF(n_obj);
-        Py_XDECREF(d_obj);
-        return NULL;
-    }
-    return Py_BuildValue("(NNN)", n_obj, d_obj, s_obj);
+    return finish(acc, length);
 }
 
 static PyObject *clear(PyObject *self, PyObject *unused)
@@ -241,6 +324,9 @@ static PyMethodDef methods[] = {
     {"sixj_sorted", sixj_sorted, METH_VARARGS,
      "sixj_sorted(a1, a2, a3, a4, e1, e2, e3) -> (n, d, s): the 6j symbol from its sorted triad sums "
      "a1<=...<=a4 and sorted quadruple sums e1<=e2<=e3 (all triangle rules assumed), as n/d*sqrt(s)."},
+    {"threej", threej, METH_VARARGS,
+     "threej(tj1, tj2, tj3, tm1, tm2, tm3) -> (n, d, s): the 3j symbol from doubled arguments obeying "
+     "every selection rule, as n/d*sqrt(s)."},
     {"clear", clear, METH_NOARGS, "clear() -> None: free the prime and factorial tables."},
     {NULL, NULL, 0, NULL}
 };
@@ -264,7 +350,7 @@ PyMODINIT_FUNC PyInit__racah6j(void)
         Py_DECREF(m);
         return NULL;
     }
-    names = Py_BuildValue("[sss]", "sixj_sorted", "clear", "TOP_LIMIT");
+    names = Py_BuildValue("[ssss]", "sixj_sorted", "threej", "clear", "TOP_LIMIT");
     if (!names || PyModule_AddObject(m, "__all__", names) < 0) {
         Py_XDECREF(names);
         Py_DECREF(m);

@@ -22,11 +22,12 @@ one integer ``P`` (a Horner scheme on the ratio of consecutive terms, no
 division) whose denominator is again a product of factorials.  Only ``P`` stays
 unfactorised, and it stays outside the square root.
 
-Compiled 6j kernel: when the optional extension ``amalgebra.coupling._racah6j``
+Compiled kernels: when the optional extension ``amalgebra.coupling._racah6j``
 (C with GMP, built at install time when a compiler and the GMP headers are
-present) is importable, :func:`sixj_kernel_sorted` runs the same algorithm
-there for factorial arguments up to its table limit (4096); otherwise, and
-above the limit, the pure-Python :func:`sixj_kernel_sorted_python` runs.  Both
+present) is importable, :func:`threej_kernel` and :func:`sixj_kernel_sorted`
+run the same algorithms there for factorial arguments up to its table limit
+(4096); otherwise, and above the limit, the pure-Python
+:func:`threej_kernel_python` and :func:`sixj_kernel_sorted_python` run.  Both
 return identical triples (tested).  :func:`kernel_backend` says which one is
 active; ``AMALGEBRA_PURE_PYTHON=1`` in the environment (read at import)
 disables the compiled kernel.
@@ -52,6 +53,7 @@ __all__ = [
     "sqrt_triple",
     "multiply_sqrt",
     "threej_kernel",
+    "threej_kernel_python",
     "sixj_kernel",
     "sixj_kernel_sorted",
     "sixj_kernel_sorted_python",
@@ -72,12 +74,14 @@ def _load_compiled():
 
 _compiled = _load_compiled()
 _COMPILED_TOP = _compiled.TOP_LIMIT if _compiled is not None else -1
+# 3j: the largest factorial argument is (tj1 + tj2 + tj3) / 2 + 1 <= TOP_LIMIT
+_COMPILED_TOP_DOUBLED = 2 * _COMPILED_TOP - 1 if _compiled is not None else -1
 
 
 def kernel_backend():
-    """Which 6j kernel runs: ``"compiled (GMP)"`` or ``"python"``.
+    """Which 3j/6j kernels run: ``"compiled (GMP)"`` or ``"python"``.
 
-    Both give identical exact results; the compiled one is about seven times
+    Both give identical exact results; the compiled 6j kernel is about seven times
     faster (``tests/benchmarks/bench_coupling.py`` prints the figures).
 
     >>> kernel_backend() in ("compiled (GMP)", "python")
@@ -325,7 +329,21 @@ def multiply_sqrt(triple, k):
 
 
 def threej_kernel(tj1, tj2, tj3, tm1, tm2, tm3):
-    """The 3j symbol (Racah's formula) as a canonical triple; selection rules assumed."""
+    """The 3j symbol (Racah's formula) as a canonical triple; selection rules assumed.
+
+    Runs the compiled kernel when it is available and the largest factorial
+    argument is within its table, else :func:`threej_kernel_python`.
+
+    >>> threej_kernel(2, 2, 0, 2, -2, 0)       # (1 1 0; 1 -1 0) = 1/sqrt(3)
+    (1, 3, 3)
+    """
+    if tj1 + tj2 + tj3 < _COMPILED_TOP_DOUBLED:
+        return _compiled.threej(tj1, tj2, tj3, tm1, tm2, tm3)
+    return threej_kernel_python(tj1, tj2, tj3, tm1, tm2, tm3)
+
+
+def threej_kernel_python(tj1, tj2, tj3, tm1, tm2, tm3):
+    """The pure-Python :func:`threej_kernel` (the reference for the compiled kernel)."""
     big = (tj1 + tj2 + tj3) // 2 + 1
     fp = _packs(big)
     b1 = (tj1 + tj2 - tj3) // 2

@@ -1,8 +1,9 @@
-"""The optional compiled 6j kernel (C + GMP) against the pure-Python kernel and an independent reference.
+"""The optional compiled 3j/6j kernels (C + GMP) against the pure-Python kernels and an independent reference.
 
-The compiled kernel must give the *identical* canonical triple as
-``kernels.sixj_kernel_sorted_python`` for every input, and both must agree with
-``racah_reference.ref_sixj_sq`` (Racah's formula in Fractions, Edmonds 1957 eq. 6.3.7).
+The compiled kernels must give the *identical* canonical triples as
+``kernels.threej_kernel_python`` and ``kernels.sixj_kernel_sorted_python`` for every
+input, and agree with ``racah_reference`` (Racah's formulas in Fractions, Edmonds
+1957 eqs. 3.7.3 and 6.3.7).
 Locally the tests skip when the extension was not built; under ``CI=true`` its
 absence is a failure (``.ci/run`` installs GMP's headers so that it builds).
 """
@@ -26,6 +27,7 @@ _spec = importlib.util.spec_from_file_location("coupling_racah_reference_c",
 _reference = importlib.util.module_from_spec(_spec)
 _spec.loader.exec_module(_reference)
 ref_sixj_sq = _reference.ref_sixj_sq
+ref_threej_sq = _reference.ref_threej_sq
 
 
 def compiled():
@@ -101,6 +103,46 @@ def test_published_values_through_the_compiled_route(a, b, c):
     assert signed_square(got) == Fraction(sign, (b + 1) * (c + 1))
 
 
+def valid_threej(t1, t2, data):
+    """Draw a 3j (doubled) obeying every selection rule."""
+    t3 = data.draw(st.sampled_from(range(abs(t1 - t2), t1 + t2 + 1, 2)))
+    m1 = data.draw(st.sampled_from(range(-t1, t1 + 1, 2)))
+    lo = max(-t2, -t3 - m1)
+    hi = min(t2, t3 - m1)
+    m2s = [m for m in range(lo, hi + 1) if (m + t2) % 2 == 0]
+    m2 = data.draw(st.sampled_from(m2s))
+    return t1, t2, t3, m1, m2, -m1 - m2
+
+
+@settings(max_examples=150, deadline=None)
+@given(st.integers(0, 200), st.integers(0, 200), st.data())
+def test_compiled_threej_equals_python_kernel(t1, t2, data):
+    module = compiled()
+    args = valid_threej(t1, t2, data)
+    got = module.threej(*args)
+    assert got == kernels.threej_kernel_python(*args)
+    n, d, s = got
+    assert d > 0 and math.gcd(n, d) == 1
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.integers(0, 20), st.integers(0, 20), st.data())
+def test_compiled_threej_against_racah_formula(t1, t2, data):
+    # Racah's 3j formula in Fractions, Edmonds (1957) eq. 3.7.3 (racah_reference.py, independent of amalgebra).
+    module = compiled()
+    args = valid_threej(t1, t2, data)
+    assert signed_square(module.threej(*args)) == ref_threej_sq(*args)
+
+
+def test_threej_argument_checks():
+    module = compiled()
+    for bad in ((2, 2, 2, 1, -1, 0), (2, 2, 2, 2, 2, -4), (2, 2, 6, 0, 0, 0), (2, 2, 2, 2, 0, 0)):
+        with pytest.raises(ValueError, match="selection rule"):
+            module.threej(*bad)
+    with pytest.raises(OverflowError):
+        module.threej(4096, 4096, 4096, 0, 0, 0)
+
+
 def test_argument_checks():
     module = compiled()
     with pytest.raises(ValueError, match="a1<=a2<=a3<=a4"):
@@ -110,12 +152,15 @@ def test_argument_checks():
 
 
 def test_beyond_the_table_falls_back_to_python(monkeypatch):
-    # Above the compiled table the dispatcher must take the Python kernel; force that with a tiny limit.
+    # Above the compiled table the dispatchers must take the Python kernels; force that with tiny limits.
     compiled()
     key = sorted_key((40, 38, 30, 36, 34, 28))
-    expected = kernels.sixj_kernel_sorted_python(*key)
+    args3 = (40, 38, 30, 4, -10, 6)
+    expected = kernels.sixj_kernel_sorted_python(*key), kernels.threej_kernel_python(*args3)
     monkeypatch.setattr(kernels, "_COMPILED_TOP", 10)
-    assert kernels.sixj_kernel_sorted(*key) == expected
+    monkeypatch.setattr(kernels, "_COMPILED_TOP_DOUBLED", 10)
+    monkeypatch.setattr(kernels, "_compiled", None)  # would raise AttributeError if still called
+    assert (kernels.sixj_kernel_sorted(*key), kernels.threej_kernel(*args3)) == expected
 
 
 def test_clear_and_regrow_tables():
@@ -145,6 +190,17 @@ def test_exhaustive_small_and_large_sweeps():
             continue
         key = sorted_key(tj)
         assert module.sixj_sorted(*key) == kernels.sixj_kernel_sorted_python(*key)
+    # every 3j with all j <= 5
+    for t1, t2, t3 in itertools.product(range(11), repeat=3):
+        if not kernels_triangle(t1, t2, t3):
+            continue
+        for m1 in range(-t1, t1 + 1, 2):
+            for m2 in range(-t2, t2 + 1, 2):
+                m3 = -m1 - m2
+                if abs(m3) <= t3:
+                    assert module.threej(t1, t2, t3, m1, m2, m3) == kernels.threej_kernel_python(
+                        t1, t2, t3, m1, m2, m3)
+    assert module.threej(2730, 2730, 2730, 2, -2, 0) == kernels.threej_kernel_python(2730, 2730, 2730, 2, -2, 0)
     # j up to about 1000 (factorial arguments near the table limit)
     for tj in ((2000, 2000, 2000, 2000, 2000, 2000), (1999, 1001, 1000, 1500, 1200, 1701),
                (1800, 1700, 300, 1750, 1650, 200)):
