@@ -18,6 +18,23 @@ Each :math:`X^{(k)}_q` is proportional to the ``q`` component of rank-``k``
 tensors (for a spin Hamiltonian, :math:`X^{(k)}_q = (-1)^q A^k_{-q} T^k_q` summed
 over the copies of rank ``k``).
 
+Two routes, one result:
+
+* :func:`decompose` (any polynomial) returns the parts :math:`X^{(k)}_q`
+  themselves, by rank projectors;
+* :func:`bilinear_tensor_form` and :func:`spin_hamiltonian_tensor_form`
+  (bilinear forms :math:`\sum_{ab} U_a M_{ab} V_b`, e.g.
+  :math:`S\cdot D\cdot S + I\cdot A\cdot S + \mu_B S\cdot g\cdot B`) return
+  them *factored* as the spectroscopists' :math:`\sum_k\sum_q (-1)^q
+  A^{(k)}_{-q} T^{(k)}_q`: coefficient tensors :math:`A^{(k)}` built from the
+  matrix entries (rank 0 the trace, rank 1 the antisymmetric part, rank 2
+  the symmetric traceless part; normalisation stated and derived in
+  :func:`bilinear_tensor_form`) times operator tensors
+  :math:`T^{(k)} = [U\times V]^{(k)}`.  For each rank,
+  :math:`\sum_q (-1)^q A^{(k)}_{-q} T^{(k)}_q = \sum_q X^{(k)}_q` (classical
+  vectors such as ``B`` passed to :func:`decompose` as ``vectors=``, so that
+  they rotate along).
+
 Method: every factor is written in spherical components (design.md:
 :math:`V_{\pm1} = \mp(V_x \pm iV_y)/\sqrt2`, :math:`V_0 = V_z`), on which the
 adjoint action of the generators is Racah's rule
@@ -53,6 +70,18 @@ An identity: the parts add up to the operator.
 >>> canonical(sum(c for k in parts for c in parts[k].values())) == canonical(X)
 True
 
+The factored form of :math:`I\cdot A\cdot S` for a general matrix ``A``
+agrees with :func:`decompose` rank by rank (an identity):
+
+>>> from sympy import Add, Matrix, symbols
+>>> from amalgebra.tensors.irreducible import bilinear_tensor_form
+>>> S, I = AngularMomentum("S"), AngularMomentum("I")
+>>> A = Matrix(3, 3, symbols("A:3:3"))
+>>> form = bilinear_tensor_form(I, A, S)
+>>> parts = decompose(form.cartesian())
+>>> [canonical(form.rank_part(k) - Add(*parts[k].values())) for k in form.ranks]
+[0, 0, 0]
+
 References
 ==========
 
@@ -62,17 +91,25 @@ References
 """
 
 from fractions import Fraction
+from typing import NamedTuple
 
-from sympy import Add, I, Mul, Pow, Rational, S, Symbol, expand, sqrt
+from sympy import Add, Basic, I, ImmutableMatrix, Integer, Mul, Pow, Rational, S, Symbol, Tuple, expand, sqrt
+from sympy.matrices import MatrixBase
+from sympy.printing.defaults import Printable
+from sympy.printing.pretty.stringpict import prettyForm
 
 from .._validation import as_expression
 from ..algebra import canonical
-from ..algebra.operators import AngularMomentumComponent
+from ..algebra.operators import AngularMomentum, AngularMomentumComponent
+from ..coupling import cg
 from ..errors import OperatorError, TensorOperatorError
+from ..notation import text_latex
+from .products import TensorComponents, cartesian_to_spherical, tensor_product
 from .spherical import TensorComponent
-from .vectors import VectorComponent
+from .vectors import VectorComponent, VectorOperator
 
-__all__ = ["decompose", "recombine", "rotation_commutator"]
+__all__ = ["decompose", "recombine", "rotation_commutator", "bilinear_tensor_form",
+           "spin_hamiltonian_tensor_form", "TensorForm", "TensorFormTerm"]
 
 _ROOT2 = sqrt(2)
 
@@ -317,7 +354,10 @@ def decompose(expr, labels=None, vectors=(), *, canonicalize=True):
     See Also
     ========
 
-    recombine, rotation_commutator, amalgebra.tensors.products.tensor_product
+    recombine, rotation_commutator, amalgebra.tensors.products.tensor_product,
+    bilinear_tensor_form : the same parts of a bilinear form, factored as
+        :math:`\sum_q (-1)^q A^{(k)}_{-q} T^{(k)}_q` (coefficient tensor times operator tensor),
+    spin_hamiltonian_tensor_form : the same for a sum of bilinear forms
     """
     if labels is not None:
         if isinstance(labels, str):
@@ -417,3 +457,337 @@ def rotation_commutator(generator, expr, labels=None):
             factors = [atoms.families[f].build(q) for f, q in word]
             parts.append(scale * coeff * Mul(*factors))
     return expand(Add(*parts))
+
+
+# -- bilinear forms U.M.V as coefficient tensors times operator tensors ---------------------------
+
+_RANKS = (S.Zero, S.One, Integer(2))
+
+
+def _form_vector(value, name):
+    """``(normalised value, Cartesian components)`` of one side of a bilinear form."""
+    if isinstance(value, (AngularMomentum, VectorOperator)):
+        return value, value.vector
+    if isinstance(value, (tuple, list, Tuple)) and len(value) == 3:
+        comps = tuple(as_expression(c, name) for c in value)
+        if not all(c.is_commutative for c in comps):
+            raise OperatorError(f"{name}={value!r} must hold commutative components (a classical "
+                                f"vector); pass an operator as an AngularMomentum or VectorOperator")
+        return comps, comps
+    raise OperatorError(f"{name}={value!r} must be an AngularMomentum, a VectorOperator or three "
+                        f"commutative Cartesian components")
+
+
+def _form_matrix(value):
+    """The 3x3 coupling matrix (a scalar ``g`` means ``g`` times the identity)."""
+    if not isinstance(value, (Basic, MatrixBase)) and callable(getattr(value, "tolist", None)):
+        value = value.tolist()     # numpy arrays
+    if isinstance(value, MatrixBase):
+        if value.shape != (3, 3):
+            raise TensorOperatorError(f"M.shape={value.shape} must be (3, 3)")
+        rows = [[value[a, b] for b in range(3)] for a in range(3)]
+    elif isinstance(value, (tuple, list)):
+        if len(value) != 3 or not all(isinstance(r, (tuple, list)) and len(r) == 3 for r in value):
+            raise TensorOperatorError(f"M={value!r} must be a 3x3 matrix or a scalar")
+        rows = [[as_expression(x, "M") for x in r] for r in value]
+    else:
+        g = as_expression(value, "M")
+        rows = [[g if a == b else S.Zero for b in range(3)] for a in range(3)]
+    matrix = ImmutableMatrix(rows)
+    if not all(x.is_commutative for x in matrix):
+        raise OperatorError(f"M={value!r} must have commutative entries")
+    return matrix
+
+
+def _coefficient_tensors(M):
+    r"""``{k: A^(k)}`` with :math:`A^{(k)}_q = (-1)^k \sum \langle 1\mu 1\nu|kq\rangle M_{\mu\nu}`."""
+    columns = [cartesian_to_spherical(*[M[a, b] for a in range(3)]) for b in range(3)]
+    spherical = {}
+    for i, mu in enumerate((1, 0, -1)):
+        row = cartesian_to_spherical(*[columns[b][i] for b in range(3)])
+        for j, nu in enumerate((1, 0, -1)):
+            spherical[mu, nu] = row[j]
+    out = {}
+    for k in _RANKS:
+        comps = []
+        for q in range(int(k), -int(k) - 1, -1):
+            terms = [cg(1, mu, 1, q - mu, k, q) * spherical[mu, q - mu]
+                     for mu in (1, 0, -1) if abs(q - mu) <= 1]
+            comps.append(expand(S.NegativeOne ** k * Add(*terms)))
+        out[k] = TensorComponents(k, comps)
+    return out
+
+
+class TensorFormTerm(NamedTuple):
+    r"""One rank of one bilinear form: :math:`\sum_q (-1)^q A^{(k)}_{-q} T^{(k)}_q`.
+
+    Fields: ``rank`` (``k``), ``coefficient`` (:math:`A^{(k)}`, a
+    :class:`~amalgebra.tensors.products.TensorComponents` of scalars),
+    ``operator`` (:math:`T^{(k)} = [U\times V]^{(k)}`) and ``form`` (the index of
+    the bilinear form it came from).  ``term.scalar`` is the recombined
+    (expanded) expression.
+    """
+
+    rank: Integer
+    coefficient: TensorComponents
+    operator: TensorComponents
+    form: int
+
+    @property
+    def scalar(self):
+        """:math:`\\sum_q (-1)^q A^{(k)}_{-q} T^{(k)}_q`, expanded."""
+        k = int(self.rank)
+        return expand(Add(*[S.NegativeOne ** q * self.coefficient[-q] * self.operator[q]
+                            for q in range(k, -k - 1, -1)]))
+
+
+class TensorForm(Printable):
+    r"""Bilinear forms written as coefficient tensors times operator tensors, rank by rank.
+
+    Result of :func:`bilinear_tensor_form` and :func:`spin_hamiltonian_tensor_form`.
+
+    ``form[k]`` is the tuple of pairs ``(A, T)`` of rank ``k`` (one pair per
+    form whose rank-``k`` coefficient tensor does not vanish; ``()`` if none),
+    ``form.terms`` the :class:`TensorFormTerm` tuples sorted by rank and then
+    by form (also what iterating over ``form`` and ``len(form)`` see),
+    ``form.ranks`` the ranks present, ``form.forms`` the normalised inputs
+    ``(U, M, V)`` (``M`` an ``ImmutableMatrix``).
+    :meth:`rank_part`, :meth:`recombine` and :meth:`cartesian` give
+    expressions.  Printing is deterministic (terms in the stored order).
+
+    Examples
+    ========
+
+    >>> from sympy import symbols
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> from amalgebra.tensors.irreducible import bilinear_tensor_form
+    >>> S, g, Bz = AngularMomentum("S"), symbols("g"), symbols("Bz")
+    >>> print(bilinear_tensor_form(S, g, (0, 0, Bz)))
+    TensorForm(
+      k=0, form 0: A = TensorComponents(0, (-sqrt(3)*g)), T = TensorComponents(0, (-sqrt(3)*Bz*S.z/3)))
+    """
+
+    __slots__ = ("terms", "forms")
+
+    def __init__(self, terms, forms):
+        self.terms = tuple(sorted(terms, key=lambda t: (t.rank, t.form)))
+        self.forms = tuple(forms)
+
+    @property
+    def ranks(self):
+        """The ranks present, increasing."""
+        return tuple(sorted({t.rank for t in self.terms}))
+
+    def __getitem__(self, k):
+        return tuple((t.coefficient, t.operator) for t in self.terms if t.rank == k)
+
+    def __iter__(self):
+        return iter(self.terms)
+
+    def __len__(self):
+        return len(self.terms)
+
+    def as_dict(self):
+        """``{k: [(A, T), ...]}`` for the ranks present."""
+        return {k: list(self[k]) for k in self.ranks}
+
+    def rank_part(self, k):
+        """The sum over forms of :math:`\\sum_q (-1)^q A^{(k)}_{-q} T^{(k)}_q` (expanded)."""
+        return Add(*[t.scalar for t in self.terms if t.rank == k])
+
+    def recombine(self):
+        """The sum over all ranks: the forms themselves, in spherical components."""
+        return Add(*[t.scalar for t in self.terms])
+
+    def cartesian(self):
+        r"""The Cartesian sum :math:`\sum_{ab} U_a M_{ab} V_b` over all forms (order ``U`` then ``V``)."""
+        terms = []
+        for U, M, V in self.forms:
+            u, v = _form_vector(U, "U")[1], _form_vector(V, "V")[1]
+            terms.extend(u[a] * M[a, b] * v[b] for a in range(3) for b in range(3) if M[a, b] != 0)
+        return Add(*terms)
+
+    def _sympystr(self, printer):
+        lines = [f"  k={printer._print(t.rank)}, form {t.form}: A = {printer._print(t.coefficient)}, "
+                 f"T = {printer._print(t.operator)}" for t in self.terms]
+        return "TensorForm(\n" + "\n".join(lines) + ")" if lines else "TensorForm()"
+
+    def _latex(self, printer, exp=None):
+        rows = [r"A^{(%s)} = %s, & T^{(%s)} = %s & %s"
+                % (printer._print(t.rank), printer._print(t.coefficient), printer._print(t.rank),
+                   printer._print(t.operator), text_latex(f"(form {t.form})")) for t in self.terms]
+        return r"\begin{aligned} %s \end{aligned}" % r" \\ ".join(rows) if rows else "0"
+
+    def _pretty(self, printer):
+        lines = []
+        for t in self.terms:
+            row = prettyForm(f"k={t.rank}, form {t.form}:  A = ")
+            for piece in (printer._print(t.coefficient), prettyForm(",  T = "), printer._print(t.operator)):
+                row = prettyForm(*row.right(piece))
+            lines.extend(row.picture)
+        if not lines:
+            return prettyForm("TensorForm()")
+        width = max(len(line) for line in lines)
+        return prettyForm("\n".join(line.ljust(width) for line in lines))
+
+
+def bilinear_tensor_form(U, M, V):
+    r"""A bilinear form :math:`\sum_{ab} U_a M_{ab} V_b` as :math:`\sum_{kq} (-1)^q A^{(k)}_{-q} T^{(k)}_q`.
+
+    Explanation
+    ===========
+
+    ``U`` and ``V`` are angular momenta / vector operators, or classical
+    vectors given by three commutative Cartesian components (a field
+    ``(Bx, By, Bz)``); ``M`` is a 3x3 matrix of commutative entries (symbols
+    allowed), a scalar ``g`` meaning ``g`` times the identity.  For each rank
+    ``k = 0, 1, 2`` the result holds (see :class:`TensorForm`)
+
+    * the operator tensor :math:`T^{(k)} = [U\times V]^{(k)}`,
+      :math:`T^{(k)}_q = \sum_{\mu\nu}\langle 1\mu\,1\nu|kq\rangle U_\mu V_\nu`
+      (:func:`~amalgebra.tensors.products.tensor_product`, design.md spherical
+      components, ``U`` left of ``V``);
+    * the coefficient tensor
+
+      .. math::
+
+          A^{(k)}_q = (-1)^k \sum_{\mu\nu} \langle 1\mu\,1\nu|kq\rangle M_{\mu\nu}, \qquad
+          M_{\mu\nu} = \sum_{ab} (e_\mu)_a M_{ab} (e_\nu)_b,
+
+      with the spherical basis :math:`e_{\pm1} = \mp(e_x \pm i e_y)/\sqrt2`,
+      :math:`e_0 = e_z` (so :math:`e_\mu\cdot V = V_\mu`).  Equivalently
+      :math:`A^{(k)} = [M^T]^{(k)}`, the coupling of the transposed matrix as if
+      it were a product :math:`u_a v_b`.
+
+    Derivation of the normalisation: :math:`V_a = \sum_\nu (-1)^\nu V_\nu (e_{-\nu})_a`
+    gives :math:`\sum_{ab} U_a M_{ab} V_b = \sum_{\mu\nu} (-1)^{\mu+\nu}
+    M_{-\mu,-\nu} U_\mu V_\nu`; inserting :math:`U_\mu V_\nu = \sum_k \langle
+    1\mu 1\nu|kq\rangle T^{(k)}_q` and :math:`M_{-\mu,-\nu} = \sum_k \langle
+    1,-\mu,1,-\nu|k,-q\rangle (-1)^k A^{(k)}_{-q}` (CG orthogonality), the
+    symmetry :math:`\langle 1,-\mu,1,-\nu|k,-q\rangle = (-1)^{2-k}\langle
+    1\mu 1\nu|kq\rangle` and orthogonality again leave exactly
+    :math:`\sum_k\sum_q (-1)^q A^{(k)}_{-q} T^{(k)}_q`.  Only scalar
+    coefficients are moved, never operators, so the identity holds for
+    noncommuting ``U_a, V_b`` (components of different labels commute; for
+    the same label the operator order is ``U`` then ``V`` as written).
+
+    In Cartesian terms (:math:`M^{(0)} = \mathrm{Tr}M/3\,\mathbb 1`,
+    :math:`M^{(1)} = (M - M^T)/2`, :math:`M^{(2)} = (M + M^T)/2 - M^{(0)}`):
+
+    * :math:`A^{(0)}_0 = -\mathrm{Tr}\,M/\sqrt3` (and :math:`T^{(0)}_0 = -U\cdot V/\sqrt3`);
+    * :math:`A^{(1)}_q = -\tfrac{i}{\sqrt2}\, m_q` with the axial vector
+      :math:`m_c = \sum_{ab}\epsilon_{cab} M_{ab}` (e.g. :math:`m_z = M_{xy} - M_{yx}`),
+      depends on :math:`M^{(1)}` only (and :math:`T^{(1)} = \tfrac{i}{\sqrt2}\,U\times V`);
+    * :math:`A^{(2)}_0 = (2M_{zz} - M_{xx} - M_{yy})/\sqrt6`,
+      :math:`A^{(2)}_{\pm1} = \mp(M_{xz} + M_{zx} \pm i(M_{yz} + M_{zy}))/2`,
+      :math:`A^{(2)}_{\pm2} = (M_{xx} - M_{yy} \pm i(M_{xy} + M_{yx}))/2`,
+      depends on :math:`M^{(2)}` only.
+
+    The rank-``k`` recombination equals the rank-``k`` part of
+    :func:`decompose` (with classical vectors passed as ``vectors=``).  Ranks
+    whose coefficient tensor vanishes (every component expands to 0)
+    are left out: a symmetric ``M`` has no rank 1, a scalar ``M`` only rank 0.
+
+    Examples
+    ========
+
+    >>> from sympy import Matrix, symbols
+    >>> from amalgebra.algebra import AngularMomentum, canonical
+    >>> from amalgebra.tensors.irreducible import bilinear_tensor_form
+    >>> S, I = AngularMomentum("S"), AngularMomentum("I")
+    >>> a = symbols("a")
+    >>> form = bilinear_tensor_form(I, a, S)          # isotropic hyperfine a I.S
+    >>> form.ranks
+    (0,)
+    >>> (A, T), = form[0]
+    >>> A[0], T[0]
+    (-sqrt(3)*a, -sqrt(3)*I.minus*S.plus/6 - sqrt(3)*I.plus*S.minus/6 - sqrt(3)*I.z*S.z/3)
+
+    An identity: the recombination is the Cartesian form, here for a general
+    symbolic matrix:
+
+    >>> A = Matrix(3, 3, symbols("A:3:3"))
+    >>> form = bilinear_tensor_form(I, A, S)
+    >>> form.ranks
+    (0, 1, 2)
+    >>> canonical(form.recombine() - form.cartesian())
+    0
+
+    Parameters
+    ==========
+
+    U, V : AngularMomentum, VectorOperator, or three commutative expressions
+    M : 3x3 Matrix (or nested 3x3 sequence) of commutative entries, or a scalar
+
+    See Also
+    ========
+
+    spin_hamiltonian_tensor_form, decompose, amalgebra.tensors.products.tensor_product
+
+    References
+    ==========
+
+    .. [1] A. Abragam and B. Bleaney, *Electron Paramagnetic Resonance of Transition Ions* (1970),
+           spin Hamiltonians in irreducible tensor form.
+    .. [2] A. R. Edmonds, *Angular Momentum in Quantum Mechanics* (1957), ch. 3 (symmetries of the
+           coupling coefficients) and ch. 5 (spherical components of vectors).
+    """
+    return spin_hamiltonian_tensor_form([(U, M, V)])
+
+
+def spin_hamiltonian_tensor_form(forms):
+    r"""A sum of bilinear forms ``[(U, M, V), ...]`` (e.g. S.D.S + I.A.S + S.g.B) in tensor form.
+
+    Each form is decomposed by :func:`bilinear_tensor_form`; the result is one
+    :class:`TensorForm` whose ``[k]`` lists the pairs ``(A^(k), T^(k))`` of all
+    forms (in input order) and whose :meth:`TensorForm.rank_part` is the
+    rank-``k`` part of the whole Hamiltonian.
+
+    Examples
+    ========
+
+    >>> from sympy import Matrix, symbols
+    >>> from amalgebra.algebra import AngularMomentum, canonical
+    >>> from amalgebra.tensors.irreducible import spin_hamiltonian_tensor_form
+    >>> S = AngularMomentum("S")
+    >>> D, E, g, B = symbols("D E g B")
+    >>> Dmat = Matrix.diag(E - D/3, -E - D/3, 2*D/3)     # zero-field splitting, traceless
+    >>> H = spin_hamiltonian_tensor_form([(S, Dmat, S), (S, g, (0, 0, B))])
+    >>> H.ranks
+    (0, 2)
+    >>> [(A[0], T[0]) for A, T in H[0]]        # from S.g.B only: -sqrt(3) g times -B S_z/sqrt(3)
+    [(-sqrt(3)*g, -sqrt(3)*B*S.z/3)]
+    >>> A2, T2 = H[2][0]
+    >>> A2.components
+    (E, 0, sqrt(6)*D/3, 0, E)
+
+    An identity: the rank-2 part is :math:`D(S_z^2 - S^2/3) + E(S_x^2 - S_y^2)`.
+
+    >>> canonical(H.rank_part(2) - (D*(S.z**2 - S.squared/3) + E*(S.x**2 - S.y**2)))
+    0
+
+    Parameters
+    ==========
+
+    forms : sequence of triples ``(U, M, V)``
+        As in :func:`bilinear_tensor_form`.
+
+    See Also
+    ========
+
+    bilinear_tensor_form, TensorForm, decompose
+    """
+    terms, normalised = [], []
+    for n, triple in enumerate(forms):
+        if not (isinstance(triple, (tuple, list)) and len(triple) == 3):
+            raise OperatorError(f"forms[{n}]={triple!r} must be a triple (U, M, V)")
+        U, M, V = triple
+        U = _form_vector(U, f"forms[{n}][0]")[0]
+        V = _form_vector(V, f"forms[{n}][2]")[0]
+        M = _form_matrix(M)
+        normalised.append((U, M, V))
+        for k, A in _coefficient_tensors(M).items():
+            if all(c == 0 for c in A.components):
+                continue
+            terms.append(TensorFormTerm(k, A, tensor_product(U, V, k), n))
+    return TensorForm(terms, normalised)
