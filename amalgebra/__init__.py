@@ -87,7 +87,8 @@ _SOURCES = {
     "tensors": [
         "SphericalTensor", "VectorOperator", "racah_tensor", "unit_tensor", "tensor_product",
         "scalar_product", "decompose", "recombine", "reduced_part1", "reduced_part2",
-        "reduced_tensor_product", "projection_theorem",
+        "reduced_tensor_product", "projection_theorem", "bilinear_tensor_form",
+        "spin_hamiltonian_tensor_form",
     ],
     "reduced": [
         "ReducedMatrixElement", "wigner_eckart", "reduced_from_element", "element_table",

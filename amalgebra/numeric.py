@@ -16,15 +16,28 @@ a term :math:`J_+^d\, p(J^2, J_z)` is a shifted diagonal,
 :math:`\prod_{k<d} \sqrt{(j + m - k)(j - m + k + 1)}`).
 
 Basis and order (fixed): for one label the basis is :math:`|j m\rangle` with
-``m = j, j-1, ..., -j`` (row/column 0 is ``m = j``).  For several labels the
+``m = j, j-1, ..., -j`` (row/column 0 is ``m = j``).  A label given a list of
+j values, e.g. ``{"L": [0, 1, 2]}``, has the direct sum of those multiplets:
+the j values in the order given, ``m`` descending within each (the order of
+:func:`~amalgebra.tensors.spherical.tensor_matrix`).  For several labels the
 space is the Kronecker product over the labels **in sorted order** (Python
 string order, e.g. ``"I" < "J" < "L" < "S"``), the first sorted label being
 the outermost (slowest-varying) factor, as in ``numpy.kron(A_I, A_J)``.
 Labels in ``j`` that do not appear in the expression contribute an identity
 factor.
 
+Expressions may also contain spherical tensor components :math:`T^k_q` and
+Cartesian vector components (:mod:`amalgebra.tensors`): their matrices come
+from the Wigner-Eckart theorem (Edmonds normalisation, design.md) with
+symbolic or given reduced elements; see :func:`to_matrix`.  Such expressions,
+and lists of j values, are evaluated by sparse matrix products of the atoms'
+matrices; pure angular-momentum polynomials on single multiplets go through
+the canonical form as above.
+
 ``kind="exact"`` returns a SymPy ``Matrix`` (free symbols in coefficients are
-kept); ``kind="float"`` a ``numpy.ndarray`` (complex only when needed);
+kept); ``kind="float"`` a ``numpy.ndarray`` (complex only when needed: on the
+canonical-form route when a coefficient is complex, on the product route when
+an entry has a nonzero imaginary part);
 ``kind="sparse"`` a ``scipy.sparse.csr_array``.  The float kinds refuse free
 symbols unless ``subs`` gives them numeric values.  numpy and scipy are
 optional: install ``amalgebra[numeric]``.
@@ -55,51 +68,52 @@ from fractions import Fraction
 from itertools import product
 from math import prod
 
-from sympy import Add, Matrix, Rational, S, expand, simplify, sqrt
+from sympy import Add, Matrix, Rational, S, Tuple, expand, simplify, sqrt
 from sympy.printing.defaults import Printable
 
 from . import notation
-from .algebra.convert import kernel_of
+from .algebra.convert import _check_expr, kernel_of
 from .algebra.modes import ANGULAR_MOMENTUM
-from .errors import ConventionError, NotNumericError, OperatorError
+from .errors import ConventionError, NotNumericError, OperatorError, QuantumNumberError
+from .multiplet_matrices import (check_reduced, kernel_only, multiplet_basis, multiplet_matrix,
+                                 require_numpy, require_scipy_sparse)
 from .qnumbers import half_integer
+from .reduced import check_convention
 
 __all__ = ["to_matrix", "verify_identity", "assert_identity", "IdentityCheck"]
 
 _KINDS = ("exact", "float", "sparse")
 
 
-def _numpy():
-    try:
-        import numpy
-    except ImportError as exc:  # pragma: no cover - depends on the environment
-        raise ImportError("to_matrix(kind='float'/'sparse') needs numpy: "
-                          "pip install 'amalgebra[numeric]'") from exc
-    return numpy
-
-
-def _scipy_sparse():
-    try:
-        import scipy.sparse
-    except ImportError as exc:  # pragma: no cover - depends on the environment
-        raise ImportError("to_matrix(kind='sparse') needs scipy: pip install 'amalgebra[numeric]'") from exc
-    return scipy.sparse
+_LISTS = (list, tuple, Tuple)
 
 
 def _check_j(j):
+    """``(spaces, listed)``: label -> tuple of j values (sorted labels), and whether a list was given."""
     if not isinstance(j, dict) or not j:
         raise OperatorError(f"j={j!r} must be a non-empty dict label -> j value, e.g. {{'J': '3/2'}}")
-    out = {}
+    out, listed = {}, False
     for label in sorted(j, key=str):
         if not isinstance(label, str):
             raise OperatorError(f"j key {label!r} must be a label str such as 'J'")
-        out[label] = half_integer(j[label], f"j[{label!r}]", nonnegative=True)
-    return out
+        value = j[label]
+        name = f"j[{label!r}]"
+        if isinstance(value, _LISTS):
+            listed = True
+            if len(value) == 0:
+                raise QuantumNumberError(f"{name}={value!r} must list at least one j value")
+            js = tuple(half_integer(v, name, nonnegative=True) for v in value)
+            if len(set(js)) != len(js):
+                raise QuantumNumberError(f"{name}={list(js)} must not repeat a j value: one multiplet "
+                                         f"per j (reduced elements are keyed by (j', j))")
+        else:
+            js = (half_integer(value, name, nonnegative=True),)
+        out[label] = js
+    return out, listed
 
 
-def _plan(expr, j):
-    """Validate, convert to the kernel, and return what the builders need."""
-    jvals = _check_j(j)
+def _plan(expr, jvals):
+    """Convert to the kernel (one j per label) and return what the builders need."""
     labels = sorted(jvals)
     algebra, (element,) = kernel_of(expr, extra_labels=labels)
     unknown = [label for label in algebra.labels if label not in jvals]
@@ -126,8 +140,44 @@ def _ladder_fraction(jv, m, d):
     return value
 
 
-def to_matrix(expr, j, kind="exact", subs=None):
-    """Matrix of ``expr`` in the :math:`|j m\\rangle` basis (see the module docstring).
+def to_matrix(expr, j, kind="exact", subs=None, reduced=None, convention="edmonds"):
+    r"""Matrix of ``expr`` on a space of :math:`|j m\rangle` multiplets (see the module docstring).
+
+    Explanation
+    ===========
+
+    ``j`` maps each label to one j (the single multiplet ``m = j, ..., -j``)
+    or to a sequence of j values, meaning the direct sum of those multiplets
+    in the order given, ``m`` descending inside each.  Angular-momentum
+    components are block diagonal there.  A tensor component
+    :math:`T^k_q` (:class:`~amalgebra.tensors.spherical.TensorComponent`) or a
+    vector component (:class:`~amalgebra.tensors.vectors.VectorComponent`)
+    acts on the space of its family's label, by the Wigner-Eckart theorem,
+    by default in the Edmonds normalisation (design.md; ``convention="cg"``
+    for the Clebsch-Gordan form):
+
+    .. math::
+
+        \langle j' m'|T^k_q|j m\rangle = (-1)^{j'-m'}
+        \begin{pmatrix} j' & k & j\\ -m' & q & m\end{pmatrix} \langle j'\|T^k\|j\rangle,
+
+    for every pair of multiplets of the label, including :math:`j' = j`
+    (a single j value is the one-multiplet space: only
+    :math:`\langle j\|T^k\|j\rangle` enters).  A vector ``V`` is its rank-1
+    view with :math:`V_{\pm1} = \mp(V_x \pm iV_y)/\sqrt2`, :math:`V_0 = V_z`,
+    so :math:`V_x = (V_{-1} - V_{+1})/\sqrt2`,
+    :math:`V_y = i(V_{+1} + V_{-1})/\sqrt2`; its reduced elements are
+    :math:`\langle j'\|V^{(1)}\|j\rangle` under the vector's name.  Operators
+    of different labels act on different factors of the product space, so
+    their matrices commute.
+
+    Reduced elements: by default the family's own ``reduced(j', j)`` (a
+    symbol :math:`\langle j'\|T^k\|j\rangle` for ``kind="abstract"``, the
+    known values for ``"unit"`` and ``"racah"``; the Racah tensor
+    :math:`C^k` needs integer j values, orbital ``l``).  ``reduced`` overrides
+    them per family.  They are used as given: hermiticity relations between
+    :math:`\langle j'\|T\|j\rangle` and :math:`\langle j\|T\|j'\rangle` are not
+    imposed.
 
     Examples
     ========
@@ -144,31 +194,85 @@ def to_matrix(expr, j, kind="exact", subs=None):
     array([[ 1.,  0.],
            [ 0., -1.]])
 
+    A tensor component on the direct sum :math:`l = 0 \oplus 1` (basis
+    :math:`|0 0\rangle, |1 1\rangle, |1 0\rangle, |1 {-1}\rangle`):
+
+    >>> from amalgebra.tensors import SphericalTensor, racah_tensor
+    >>> L = AngularMomentum("L")
+    >>> T = SphericalTensor("T", 1, "L")
+    >>> to_matrix(T[1], {"L": [0, 1]})
+    Matrix([
+    [                      0, 0,                        0,  sqrt(3)*<0||T^(1)||1>/3],
+    [sqrt(3)*<1||T^(1)||0>/3, 0, -sqrt(6)*<1||T^(1)||1>/6,                        0],
+    [                      0, 0,                        0, -sqrt(6)*<1||T^(1)||1>/6],
+    [                      0, 0,                        0,                        0]])
+    >>> to_matrix(T[1], {"L": [0, 1]}, reduced={T: {(1, 0): 3}})[1, 0]     # sqrt(3)/3 * 3
+    sqrt(3)
+
+    An identity, :math:`[L_z, T^1_q] = q\,T^1_q`, and the dipole element
+    :math:`\langle 1 0|C^1_0|0 0\rangle = 1/\sqrt3`:
+
+    >>> M = {"L": [0, 1, 2]}
+    >>> to_matrix(L.z*T[-1] - T[-1]*L.z, M) == -to_matrix(T[-1], M) != to_matrix(0, M)
+    True
+    >>> to_matrix(racah_tensor(1)[0], {"L": [0, 1]})[2, 0]
+    sqrt(3)/3
+
     Parameters
     ==========
 
     expr : Expr
-        Operator polynomial in angular-momentum components.
+        Operator polynomial in angular-momentum, tensor and vector components.
     j : dict
-        label -> j (int, Rational, ``"3/2"``, ...), validated by
-        :mod:`amalgebra.qnumbers`; must cover every label of ``expr``.
+        label -> j (int, Rational, ``"3/2"``, ...) or a list/tuple of distinct
+        j values (a direct sum), validated by :mod:`amalgebra.qnumbers`; must
+        cover every label of ``expr``.
     kind : {"exact", "float", "sparse"}
     subs : dict, optional
-        Values for free symbols of the coefficients (float kinds only).
+        Values for free symbols of the coefficients and for symbolic reduced
+        elements (applied to the exact entries too).
+    reduced : dict, optional
+        ``{family: values}`` with ``family`` a
+        :class:`~amalgebra.tensors.spherical.SphericalTensor` or a
+        :class:`~amalgebra.tensors.vectors.VectorOperator`, and ``values``
+        either a dict ``{(j', j): value}`` (missing pairs are zero, as in
+        :func:`~amalgebra.tensors.spherical.tensor_matrix`) or a callable
+        ``values(j', j)`` (Rationals in, a number or expression out).
+    convention : {"edmonds", "cg"}
+        Normalisation of the reduced elements (given or symbolic):
+        ``"edmonds"`` (design.md, the default) or the Clebsch-Gordan form
+        :math:`\langle j'm'|T^k_q|jm\rangle = \langle j m\, k q|j'm'\rangle
+        \langle j'\|T^k\|j\rangle_{\mathrm{cg}}`
+        (:func:`~amalgebra.reduced.convert_reduced` converts).
 
     Raises
     ======
 
     QuantumNumberError
-        A j value is not a nonnegative integer or half-integer.
+        A j value is not a nonnegative integer or half-integer, a list is
+        empty or repeats a j, or a Racah tensor meets a half-integer j.
+    ConventionError
+        ``kind`` or ``convention`` is unknown.
     OperatorError
-        A label of ``expr`` has no j value, or ``expr`` is not an operator polynomial.
+        A label of ``expr`` (or of a tensor or vector in it) has no j value,
+        ``expr`` is not an operator polynomial, or ``reduced`` is malformed.
     NotNumericError
-        Free symbols remain for a float kind.
+        Free symbols (or symbolic reduced elements) remain for a float kind.
+
+    See Also
+    ========
+
+    amalgebra.tensors.spherical.tensor_matrix, amalgebra.reduced.wigner_eckart
     """
     if kind not in _KINDS:
         raise ConventionError(f"kind={kind!r} must be one of {', '.join(_KINDS)}")
-    algebra, element, labels, jvals, dims = _plan(expr, j)
+    convention = check_convention(convention)
+    spaces, listed = _check_j(j)
+    table = check_reduced(reduced)
+    expr = _check_expr(expr)
+    if listed or not kernel_only(expr):
+        return multiplet_matrix(expr, spaces, kind, subs, table, convention)
+    algebra, element, labels, jvals, dims = _plan(expr, {label: js[0] for label, js in spaces.items()})
     if kind == "exact":
         return _exact(algebra, element, labels, jvals, dims, subs)
     return _floating(algebra, element, labels, jvals, dims, kind, subs)
@@ -259,7 +363,7 @@ def _fast_complex(domain, c):
 
 
 def _floating(algebra, element, labels, jvals, dims, kind, subs):
-    np = _numpy()
+    np = require_numpy()
     table, complex_needed = _complex_coefficients(algebra, element, subs)
     dtype = complex if complex_needed else float
     js = [float(jvals[label]) for label in labels]
@@ -314,7 +418,7 @@ def _floating(algebra, element, labels, jvals, dims, kind, subs):
     if kind == "sparse":
         keep = data != 0
         rows, cols, data = rows[keep], cols[keep], data[keep]
-        sparse = _scipy_sparse()
+        sparse = require_scipy_sparse()
         return sparse.csr_array((data, (rows, cols)), shape=(n, n))
     out = np.zeros((n, n), dtype=dtype)
     out[rows, cols] = data  # (row, col) pairs are distinct: a column fixes the row per shift key
@@ -344,8 +448,8 @@ class IdentityCheck(Printable):
 
     ``first_mismatch`` is ``None`` or a dict with keys ``j`` (the j values),
     ``row``, ``col``, ``m_row``, ``m_col`` (the m values of those basis
-    states, one per label in sorted label order), ``lhs`` and ``rhs`` (the
-    two entries).  ``bool(result)`` is ``result.holds``.
+    states, one per label in sorted label order; ``(j, m)`` pairs for a label
+    given a list of j), ``lhs`` and ``rhs`` (the two entries).  ``bool(result)`` is ``result.holds``.
     """
 
     __slots__ = ("holds", "first_mismatch", "checked")
@@ -402,8 +506,8 @@ def _same(a, b):
     return simplify(difference) == 0
 
 
-def verify_identity(lhs, rhs, j_values, subs=None):
-    """Compare the exact matrices of ``lhs`` and ``rhs`` for several sets of j.
+def verify_identity(lhs, rhs, j_values, subs=None, reduced=None):
+    r"""Compare the exact matrices of ``lhs`` and ``rhs`` for several sets of j.
 
     Examples
     ========
@@ -417,6 +521,15 @@ def verify_identity(lhs, rhs, j_values, subs=None):
     >>> print(result)
     identity fails at J=1: entry (row 0, col 0), <m=(1,)| . |m=(1,)>: lhs = I, rhs = 1
 
+    On a direct sum of multiplets, :math:`[J_+, T^1_0] = \sqrt2\, T^1_1`
+    with symbolic reduced elements:
+
+    >>> from sympy import sqrt
+    >>> from amalgebra.tensors import SphericalTensor
+    >>> T = SphericalTensor("T", 1, "J")
+    >>> verify_identity(J.plus*T[0] - T[0]*J.plus, sqrt(2)*T[1], [{"J": ["1/2", "3/2"]}]).holds
+    True
+
     Parameters
     ==========
 
@@ -424,9 +537,13 @@ def verify_identity(lhs, rhs, j_values, subs=None):
         Operator polynomials (or commutative expressions, meaning multiples of 1).
     j_values : dict or list of dict
         ``{"J": [j1, j2, ...], "S": [...]}`` (all combinations are checked) or
-        an explicit list of ``{label: j}`` dicts.
+        an explicit list of ``{label: j}`` dicts, each one space for
+        :func:`to_matrix` (a value may be a list of j: a direct sum, which
+        expressions with tensor components need to connect different j).
     subs : dict, optional
         Substitution applied to the matrix entries before comparing.
+    reduced : dict, optional
+        Reduced matrix elements, passed to :func:`to_matrix`.
 
     Returns
     =======
@@ -435,10 +552,11 @@ def verify_identity(lhs, rhs, j_values, subs=None):
     """
     checked = []
     for js in _j_sets(j_values):
-        left = to_matrix(lhs, js)
-        right = to_matrix(rhs, js)
-        labels = sorted(js)
-        jv = {label: half_integer(js[label], f"j[{label!r}]", nonnegative=True) for label in labels}
+        left = to_matrix(lhs, js, reduced=reduced)
+        right = to_matrix(rhs, js, reduced=reduced)
+        spaces, _ = _check_j(js)
+        labels = sorted(spaces)
+        jv = {label: spaces[label] if isinstance(js[label], _LISTS) else spaces[label][0] for label in labels}
         checked.append(jv)
         for r in range(left.rows):
             for c in range(left.cols):
@@ -453,15 +571,16 @@ def verify_identity(lhs, rhs, j_values, subs=None):
 
 
 def _ms(jv, labels, index):
-    dims = [int(2 * jv[label]) + 1 for label in labels]
+    """The basis state of ``index``: per label ``m``, or ``(j, m)`` for a direct sum."""
+    bases = [multiplet_basis(jv[label] if isinstance(jv[label], tuple) else (jv[label],)) for label in labels]
     out = []
     for i in reversed(range(len(labels))):
-        index, c = divmod(index, dims[i])
-        out.append(jv[labels[i]] - c)
+        index, c = divmod(index, len(bases[i]))
+        out.append(bases[i][c] if isinstance(jv[labels[i]], tuple) else bases[i][c][1])
     return tuple(reversed(out))
 
 
-def assert_identity(lhs, rhs, j_values, subs=None):
+def assert_identity(lhs, rhs, j_values, subs=None, reduced=None):
     """Like :func:`verify_identity` but raise ``AssertionError`` (with the report) on failure.
 
     >>> from amalgebra.algebra import AngularMomentum
@@ -469,7 +588,7 @@ def assert_identity(lhs, rhs, j_values, subs=None):
     >>> J = AngularMomentum("J")
     >>> assert_identity(J.minus*J.plus, J.squared - J.z**2 - J.z, {"J": [0, "1/2", 1, 2]})
     """
-    result = verify_identity(lhs, rhs, j_values, subs=subs)
+    result = verify_identity(lhs, rhs, j_values, subs=subs, reduced=reduced)
     if not result.holds:
         raise AssertionError(str(result))
 

@@ -140,3 +140,80 @@ def test_verify_identity_symbolic_entries():
     assert verify_identity(a * (J.x + J.y), a * J.x + a * J.y, {"J": [1]}).holds
     with pytest.raises(OperatorError):
         verify_identity(J.x, J.x, "J=1")
+
+
+# ------------------------------------------------------------- direct sums of multiplets
+
+def _block_diag(blocks):
+    n = sum(b.rows for b in blocks)
+    out = Matrix.zeros(n, n)
+    at = 0
+    for b in blocks:
+        out[at:at + b.rows, at:at + b.rows] = b
+        at += b.rows
+    return out
+
+
+@pytest.mark.parametrize("js", [[0, 1, 2], ["1/2", "3/2"], ("3/2", "1/2", "5/2"), [1]])
+def test_direct_sum_is_block_diagonal(js):
+    # documented basis order: j as given, m descending; angular momentum is block diagonal
+    expr = J.plus * J.z ** 2 - I * J.x * J.y + J.squared
+    want = _block_diag([to_matrix(expr, {"J": jv}) for jv in js])
+    assert to_matrix(expr, {"J": js}) == want != Matrix.zeros(want.rows, want.rows)
+    assert np.allclose(to_matrix(expr, {"J": js}, kind="float"), np.array(want.evalf(), dtype=complex))
+    assert np.allclose(to_matrix(expr, {"J": js}, kind="sparse").toarray(), np.array(want.evalf(), dtype=complex))
+
+
+def test_direct_sum_matches_independent_numpy():
+    # testing.reference.evaluate builds spin matrices independently per (j_J, j_S); the product of
+    # two direct sums is assembled here in the documented order (sorted labels, kron, j as given)
+    expr = (J.x * S.y - J.y * S.x) ** 2 + J.plus * S.minus
+    space = {"J": ["1/2", 1], "S": [0, "1/2"]}
+    j_blocks = [(0.5, 0, 2), (1.0, 2, 3)]          # (j, offset, dimension) inside the J direct sum
+    s_blocks = [(0.0, 0, 1), (0.5, 1, 2)]
+    want = np.zeros((15, 15), complex)
+    for jj, oj, dj in j_blocks:
+        for js, os_, ds in s_blocks:
+            block = evaluate(expr, {"J": jj, "S": js})
+            index = [(oj + a) * 3 + os_ + b for a in range(dj) for b in range(ds)]
+            want[np.ix_(index, index)] = block
+    assert np.allclose(to_matrix(expr, space, kind="float"), want) and np.abs(want).max() > 0.1
+    assert np.allclose(np.array(to_matrix(expr, space).evalf(), dtype=complex), want)
+
+
+def test_direct_sum_j_validation():
+    from sympy import Tuple
+    assert to_matrix(J.z, {"J": Tuple(0, 1)}) == Matrix.diag(0, 1, 0, -1)
+    with pytest.raises(QuantumNumberError, match="repeat"):
+        to_matrix(J.z, {"J": ["1/2", Rational(1, 2)]})
+    with pytest.raises(QuantumNumberError, match="at least one"):
+        to_matrix(J.z, {"J": ()})
+    with pytest.raises(QuantumNumberError):
+        to_matrix(J.z, {"J": [1, -1]})
+    with pytest.raises(OperatorError):
+        to_matrix(J.z, {"S": [1, 2]})            # label J missing on the product route too
+
+
+def test_direct_sum_symbols_and_subs():
+    m = to_matrix(a * J.z, {"J": [0, "1/2"]})
+    assert m == Matrix.diag(0, a / 2, -a / 2)
+    with pytest.raises(NotNumericError):
+        to_matrix(a * J.z, {"J": [0, "1/2"]}, kind="float")
+    assert np.allclose(to_matrix(a * J.z + 1, {"J": [0, "1/2"]}, kind="float", subs={a: 4}), np.diag([1, 3, -1]))
+    assert to_matrix(a * J.z, {"J": [0, "1/2"]}, subs={a: 4}) == Matrix.diag(0, 2, -2)
+
+
+def test_direct_sum_scalars_and_dtype():
+    assert to_matrix(Rational(3), {"J": [0, 1]}) == 3 * Matrix.eye(4)
+    assert to_matrix(J.x ** 2, {"J": [0, 1]}, kind="float").dtype == np.float64
+    assert to_matrix(J.y, {"J": [0, 1]}, kind="float").dtype == np.complex128
+
+
+def test_verify_identity_direct_sum_mismatch_report():
+    # J+ J- = J^2 - Jz^2 + Jz (Sakurai 3.5); the wrong sign fails at <1/2, 1/2| . |1/2, 1/2>
+    bad = verify_identity(J.plus * J.minus, J.squared - J.z ** 2 - J.z, [{"J": [0, "1/2"], "S": 1}])
+    assert not bad.holds
+    mm = bad.first_mismatch
+    assert mm["j"] == {"J": (0, Rational(1, 2)), "S": 1}
+    assert mm["m_row"] == ((Rational(1, 2), Rational(1, 2)), 1) and mm["lhs"] == 1 and mm["rhs"] == 0
+    assert verify_identity(J.plus * J.minus, J.squared - J.z ** 2 + J.z, [{"J": [0, "1/2", 1]}]).holds

@@ -15,8 +15,12 @@ one expression as
 left, then for each label (sorted) a power of its Casimir and of its
 :math:`z` component, with fully expanded exact coefficients.  Two
 expressions are equal as operators exactly when their canonical forms are
-structurally equal (``==``).  The matrix element of one term is read off
-directly:
+structurally equal (``==``).  With spherical tensor and vector operator
+components (:mod:`amalgebra.tensors.mixedform`, reached through the hooks of
+:mod:`amalgebra.algebra.extensions`) the form is
+:math:`\sum_W A_W\, W`: angular-momentum factors (in the form above) to the
+left of tensor components, tensor components in the order written.  The
+matrix element of one angular-momentum term is read off directly:
 
 .. math::
 
@@ -53,6 +57,7 @@ from sympy.polys.polyerrors import CoercionFailed, GeneratorsError, PolynomialEr
 
 from ..errors import OperatorError
 from .convert import kernel_of
+from .extensions import kernel_for
 from .modes import ANGULAR_MOMENTUM
 from .shiftform import _IOTA, _ring, _sum
 
@@ -77,13 +82,26 @@ def canonical(expr):
     >>> canonical(e) == canonical(canonical(e))    # idempotent
     True
 
+    Components of spherical tensors and vector operators (after
+    ``import amalgebra.tensors``) are accepted too.  Convention of the mixed
+    normal form: angular-momentum factors to the left of tensor components,
+    tensor components in the order written (never reordered among
+    themselves); see :mod:`amalgebra.tensors.mixedform`.
+
+    >>> from amalgebra.tensors import VectorOperator
+    >>> r = VectorOperator("r", "J")
+    >>> canonical(r.z*J.plus)                  # z J+ = J+ z - [J+, z] = J+ z + x + i y
+    J.plus*r.z + r.x + I*r.y
+    >>> canonical(r.x*S.z*r.y) == S.z*r.x*r.y  # another label commutes; x, y keep their order
+    True
+
     Parameters
     ==========
 
     expr : Expr
         A polynomial (nonnegative integer powers only) in components of
-        :class:`~amalgebra.algebra.AngularMomentum` with commutative
-        coefficients.
+        :class:`~amalgebra.algebra.AngularMomentum` (and of spherical tensors
+        and vector operators, see above) with commutative coefficients.
 
     Raises
     ======
@@ -92,7 +110,7 @@ def canonical(expr):
         For negative/non-integer/symbolic powers of operators, unknown
         noncommutative objects, or input that is not an expression.
     """
-    algebra, (element,) = kernel_of(expr)
+    algebra, (element,) = kernel_for(expr)
     return algebra.to_expr(element)
 
 

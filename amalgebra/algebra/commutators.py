@@ -15,6 +15,11 @@ Hadamard series
 truncated after the term ``n = order`` (exact when the series terminates, e.g.
 for nilpotent :math:`\mathrm{ad}_X`).
 
+Components of spherical tensors and vector operators are accepted as well
+(once :mod:`amalgebra.tensors` is imported); results are then in the mixed
+normal form of :mod:`amalgebra.tensors.mixedform`: angular-momentum factors
+to the left of tensor components, tensor components in the order written.
+
 Examples
 ========
 
@@ -29,6 +34,18 @@ I*J.z
 >>> adjoint_action(I*t*J.z, J.plus, 3)   # e^{i t Jz} J+ e^{-i t Jz} = e^{i t} J+, to order 3
 -I*t**3*J.plus/6 - t**2*J.plus/2 + I*t*J.plus + J.plus
 
+With a vector operator (Sakurai (3.10.1)): :math:`[J_x, V_y] = i V_z`, and
+rotating :math:`V_x` about :math:`z` by angle :math:`t` gives
+:math:`V_x \cos t + V_y \sin t` (to third order here):
+
+>>> from amalgebra.algebra import canonical
+>>> from amalgebra.tensors import VectorOperator
+>>> V = VectorOperator("V", "J")
+>>> commutator(J.x, V.y)
+I*V.z
+>>> adjoint_action(-I*t*J.z, V.x, 3) == canonical((1 - t**2/2)*V.x + (t - t**3/6)*V.y)
+True
+
 References
 ==========
 
@@ -39,7 +56,7 @@ from math import factorial
 from numbers import Integral
 
 from ..errors import OperatorError
-from .convert import kernel_of
+from .extensions import kernel_for
 
 __all__ = ["commutator", "nested_commutator", "adjoint_action"]
 
@@ -62,6 +79,10 @@ def commutator(a, b):
     (0, 0)
     >>> commutator(J.plus, J.minus)
     2*J.z
+    >>> from amalgebra.tensors import SphericalTensor
+    >>> T = SphericalTensor("T", 2, "J")
+    >>> commutator(J.plus, T[1])             # sqrt((k - q)(k + q + 1)) T_{q+1}, Sakurai (3.11.x)
+    2*T^(2)_(2)
 
     Parameters
     ==========
@@ -74,7 +95,7 @@ def commutator(a, b):
 
     nested_commutator, adjoint_action, amalgebra.algebra.canonical
     """
-    algebra, (x, y) = kernel_of(a, b)
+    algebra, (x, y) = kernel_for(a, b)
     return algebra.to_expr(algebra.sub(algebra.mul(x, y), algebra.mul(y, x)))
 
 
@@ -85,9 +106,13 @@ def nested_commutator(x, y, n):
     >>> J = AngularMomentum("J")
     >>> nested_commutator(J.z, J.minus, 4)      # ad_{Jz}^n J- = (-1)^n J-
     J.minus
+    >>> from amalgebra.tensors import SphericalTensor
+    >>> T = SphericalTensor("T", 2, "J")
+    >>> nested_commutator(J.z, T[-2], 3)        # ad_{Jz}^n T_q = q^n T_q
+    -8*T^(2)_(-2)
     """
     n = _count(n, "n")
-    algebra, (ex, ey) = kernel_of(x, y)
+    algebra, (ex, ey) = kernel_for(x, y)
     for _ in range(n):
         ey = algebra.sub(algebra.mul(ex, ey), algebra.mul(ey, ex))
     return algebra.to_expr(ey)
@@ -104,6 +129,13 @@ def adjoint_action(x, y, order):
     >>> adjoint_action(-I*b*J.y, J.z, 2)   # rotation about y, to second order in b
     -b**2*J.z/2 + b*J.minus/2 + b*J.plus/2 + J.z
 
+    Tensor components rotate as well (:math:`e^{-i b J_z} T_q e^{i b J_z} = e^{-i q b} T_q`):
+
+    >>> from amalgebra.tensors import SphericalTensor
+    >>> T = SphericalTensor("T", 2, "J")
+    >>> adjoint_action(-I*b*J.z, T[2], 2)
+    -2*b**2*T^(2)_(2) - 2*I*b*T^(2)_(2) + T^(2)_(2)
+
     Parameters
     ==========
 
@@ -112,7 +144,7 @@ def adjoint_action(x, y, order):
         Highest power of ``ad_x`` kept (``order = 0`` returns ``canonical(y)``).
     """
     order = _count(order, "order")
-    algebra, (ex, ey) = kernel_of(x, y)
+    algebra, (ex, ey) = kernel_for(x, y)
     terms = [ey]
     current = ey
     for n in range(1, order + 1):

@@ -30,11 +30,13 @@ says where the reduced element comes from:
     spherical harmonics in the tests).
 
 :class:`TensorComponent` (``T[q]``) is a noncommutative SymPy atom; products
-and sums of components are ordinary SymPy expressions.  The operator-algebra
-kernel (:func:`amalgebra.algebra.canonical`) knows only angular-momentum
-components, so components are not normal-ordered by it; their commutators with
-the angular momentum are given by :meth:`SphericalTensor.commutator_with` and
-their matrices by :func:`tensor_matrix`.
+and sums of components are ordinary SymPy expressions.  With
+``amalgebra.tensors`` imported, :func:`amalgebra.algebra.canonical` and the
+commutator functions accept products of components and angular-momentum
+components (:mod:`amalgebra.tensors.mixedform`: angular-momentum factors to the
+left, tensor components in the order written); single commutators with the
+angular momentum are also given by :meth:`SphericalTensor.commutator_with`, and
+matrices by :func:`tensor_matrix`.
 
 Hermitian families (``hermitian=True``) satisfy
 :math:`(T^k_q)^\dagger = (-1)^q T^k_{-q}`, which ``adjoint`` applies.
