@@ -157,22 +157,27 @@ def _am_local(component, js):
 def _tensor_local(view, q, js, reduced_of, convention="edmonds"):
     """``{(row, col): value}`` of the component ``q`` of the rank-k ``view`` by Wigner-Eckart."""
     from .reduced import wigner_eckart_factor
+    out = {}
+    for r, c, jp, mp, jv, m in _component_positions(q, js):
+        factor = wigner_eckart_factor(jp, mp, view.rank, q, jv, m, convention)
+        if factor == 0:
+            continue
+        value = factor * reduced_of(jp, jv)
+        if value != 0:
+            out[(r, c)] = value
+    return out
+
+
+def _component_positions(q, js):
+    """``(row, col, j', m', j, m)`` for every pair of basis states a weight-``q`` component can join."""
     basis = multiplet_basis(js)
     index = {state: i for i, state in enumerate(basis)}
-    out = {}
     for c, (jv, m) in enumerate(basis):
         mp = m + q
         for jp in js:
             r = index.get((jp, mp))
-            if r is None:
-                continue
-            factor = wigner_eckart_factor(jp, mp, view.rank, q, jv, m, convention)
-            if factor == 0:
-                continue
-            value = factor * reduced_of(jp, jv)
-            if value != 0:
-                out[(r, c)] = value
-    return out
+            if r is not None:
+                yield r, c, jp, mp, jv, m
 
 
 def _combine(*pairs):
@@ -181,6 +186,11 @@ def _combine(*pairs):
     for coefficient, local in pairs:
         for key, value in local.items():
             terms.setdefault(key, []).append(coefficient * value)
+    return _summed(terms)
+
+
+def _summed(terms):
+    """``{key: expanded sum of the list}``, zeros dropped."""
     out = {}
     for key, values in terms.items():
         value = expand(Add(*values))
@@ -302,12 +312,7 @@ class _ExactOps:
         for (r, k), value in left.items():
             for c, other in by_row.get(k, ()):
                 terms.setdefault((r, c), []).append(value * other)
-        out = {}
-        for key, values in terms.items():
-            value = expand(Add(*values))
-            if value != 0:
-                out[key] = value
-        return out
+        return _summed(terms)
 
     def finish(self, mat):
         if self.subs:
@@ -352,26 +357,19 @@ class _FloatOps:
     def tensor(self, view, q, js, reduced_of, convention="edmonds"):
         """Float twin of :func:`_tensor_local`: correctly rounded 3j symbols, numeric reduced elements."""
         from .coupling import cg_float, threej_float
-        basis = multiplet_basis(js)
-        index = {state: i for i, state in enumerate(basis)}
         numbers, out = {}, {}
-        for c, (jv, m) in enumerate(basis):
-            mp = m + q
-            for jp in js:
-                r = index.get((jp, mp))
-                if r is None:
-                    continue
-                if convention == "cg":
-                    factor = cg_float(jv, m, view.rank, q, jp, mp)
-                else:
-                    factor = (-1) ** int(jp - mp) * threej_float(jp, view.rank, jv, -mp, q, m)
-                if factor == 0:
-                    continue
-                if (jp, jv) not in numbers:
-                    numbers[(jp, jv)] = self.number(reduced_of(jp, jv))
-                value = factor * numbers[(jp, jv)]
-                if value:
-                    out[(r, c)] = value
+        for r, c, jp, mp, jv, m in _component_positions(q, js):
+            if convention == "cg":
+                factor = cg_float(jv, m, view.rank, q, jp, mp)
+            else:
+                factor = (-1) ** int(jp - mp) * threej_float(jp, view.rank, jv, -mp, q, m)
+            if factor == 0:
+                continue
+            if (jp, jv) not in numbers:
+                numbers[(jp, jv)] = self.number(reduced_of(jp, jv))
+            value = factor * numbers[(jp, jv)]
+            if value:
+                out[(r, c)] = value
         return out
 
     @staticmethod

@@ -49,7 +49,7 @@ from ..errors import OperatorError
 from .modes import mode_of
 from .shiftform import Element, ShiftAlgebra
 
-__all__ = ["kernel_of", "build_algebra", "to_kernel", "scan", "choose_domain"]
+__all__ = ["kernel_of", "build_algebra", "to_kernel", "scan", "operator_power_base", "choose_domain"]
 
 
 def _check_expr(expr, name="expr"):
@@ -60,6 +60,15 @@ def _check_expr(expr, name="expr"):
         raise OperatorError(f"{name}={expr!r} must be a SymPy expression built from operators, "
                             f"got {type(expr).__name__}")
     return S(expr) if isinstance(expr, int) else expr
+
+
+def operator_power_base(node):
+    """The base of an operator power ``node``; the exponent must be a nonnegative integer."""
+    base, exp = node.args
+    if not (exp.is_Integer and exp >= 0):
+        raise OperatorError(f"exponent={exp} of {base} must be a nonnegative integer: "
+                            f"operators have no inverses or roots here")
+    return base
 
 
 def scan(expr, modes, scalars):
@@ -78,11 +87,7 @@ def scan(expr, modes, scalars):
             stack.extend(node.args)
             continue
         if node.is_Pow:
-            base, exp = node.args
-            if not (exp.is_Integer and exp >= 0):
-                raise OperatorError(f"exponent={exp} of {base} must be a nonnegative integer: "
-                                    f"operators have no inverses or roots here")
-            stack.append(base)
+            stack.append(operator_power_base(node))
             continue
         found = mode_of(node)
         if found is None:

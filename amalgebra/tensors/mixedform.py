@@ -90,7 +90,7 @@ from math import comb, gcd
 from sympy import Add, I, Integer, Mul, Rational, S, default_sort_key, expand, sqrt
 from sympy.ntheory import factorint
 
-from ..algebra.convert import _check_expr, _scalar, choose_domain, to_kernel
+from ..algebra.convert import _check_expr, _scalar, choose_domain, operator_power_base, to_kernel
 from ..algebra.extensions import register_extension
 from ..algebra.modes import ANGULAR_MOMENTUM, mode_of
 from ..algebra.shiftform import Element, ShiftAlgebra
@@ -207,11 +207,7 @@ def _scan(exprs):
         elif node.is_Add or node.is_Mul:
             stack.extend(node.args)
         elif node.is_Pow:
-            base, exp = node.args
-            if not (exp.is_Integer and exp >= 0):
-                raise OperatorError(f"exponent={exp} of {base} must be a nonnegative integer: "
-                                    f"operators have no inverses or roots here")
-            stack.append(base)
+            stack.append(operator_power_base(node))
         elif isinstance(node, (TensorComponent, VectorComponent)):
             family = node.tensor if isinstance(node, TensorComponent) else node.vector
             families[family] = None
