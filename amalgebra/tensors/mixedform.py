@@ -87,7 +87,7 @@ References
 
 from math import comb, gcd
 
-from sympy import Add, I, Integer, Mul, Rational, S, default_sort_key, expand, sqrt
+from sympy import Add, I, Integer, Mul, Rational, S, cancel, default_sort_key, expand, sqrt
 from sympy.ntheory import factorint
 
 from ..algebra.convert import _check_expr, _scalar, choose_domain, operator_power_base, to_kernel
@@ -560,8 +560,16 @@ class MixedAlgebra:
             if coeff == 0:
                 continue
             factors = kernel.term_factors(shift, mon) + atoms
-            terms.extend(Mul(part, *factors) for part in Add.make_args(coeff))
+            terms.extend(Mul(part, *factors) for part in _coefficient_parts(coeff))
         return Add(*terms)
+
+
+def _coefficient_parts(coeff):
+    """Split an expanded coefficient as the m-shift kernel does: a polynomial in user symbols
+    into its monomials, a rational function with a symbolic denominator kept whole."""
+    if coeff.is_Add and any(part.as_numer_denom()[1].free_symbols for part in coeff.args):
+        return (cancel(coeff),)
+    return Add.make_args(coeff)
 
 
 class _TensorExtension:

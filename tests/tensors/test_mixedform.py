@@ -430,3 +430,20 @@ def test_hash_seed_independent(seed):
     env["PYTHONHASHSEED"] = "987"
     ref = subprocess.run([sys.executable, "-c", _SCRIPT], capture_output=True, text=True, env=env, check=True)
     assert out.stdout == ref.stdout and out.stdout.count("\n") == 2
+
+
+def test_rational_function_coefficients_stay_whole_as_in_the_pure_path():
+    # Formatting convention shared with the m-shift kernel: a rational function of user symbols is one
+    # coefficient per operator monomial, a polynomial is spread into monomials (no physical value checked).
+    from sympy import Symbol
+
+    from amalgebra.algebra import AngularMomentum, canonical
+    from amalgebra.tensors import VectorOperator
+
+    J, r = AngularMomentum("J"), VectorOperator("r", "J")
+    a, b = Symbol("a"), Symbol("b")
+    mixed = canonical(a / (b + 1) * J.plus * r.z + b / (b + 1) * J.plus * r.z)
+    assert mixed == (a + b) / (b + 1) * J.plus * r.z
+    assert not mixed.is_Add    # one term, not two
+    assert canonical(mixed) == mixed
+    assert canonical((a + b) * J.plus * r.z) == a * J.plus * r.z + b * J.plus * r.z
