@@ -37,8 +37,10 @@ noncommutative order and SymPy's automatic evaluation are reproduced faithfully.
   and ``KroneckerDelta``) and to the operator constructors of
   :data:`CONSTRUCTORS` (``Jx(J)``, ``Jy(J)``, ``Jz(J)``, ``Jplus(J)``, ``Jminus(J)``,
   ``Jsq(J)`` for the components of the angular momentum labelled ``J``;
-  ``ket(j, m, J)`` and ``bra(j, m, J)`` for the states of that label), which are
-  imported lazily on first use.
+  ``Vx(r, L)``, ``Vy(r, L)``, ``Vz(r, L)`` for the Cartesian components of the
+  (Hermitian) vector operator ``r`` under ``L``; ``ket(j, m, J)`` and
+  ``bra(j, m, J)`` for the states of that label), which are imported lazily on
+  first use.
 * :class:`ParseLimits` bounds the input length, integer digits, numeric exponents,
   the size of numbers built while parsing, and the nesting depth, so that inputs such
   as ``2^2^2^5`` are refused in microseconds instead of being computed.
@@ -80,6 +82,7 @@ References
 """
 
 import importlib
+import itertools
 import re
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -173,6 +176,9 @@ CONSTRUCTORS = {
         Constructor("Jplus", "amalgebra.algebra", "AngularMomentum", ("label",), "plus"),
         Constructor("Jminus", "amalgebra.algebra", "AngularMomentum", ("label",), "minus"),
         Constructor("Jsq", "amalgebra.algebra", "AngularMomentum", ("label",), "squared"),
+        Constructor("Vx", "amalgebra.tensors", "VectorOperator", ("label", "label"), "x"),
+        Constructor("Vy", "amalgebra.tensors", "VectorOperator", ("label", "label"), "y"),
+        Constructor("Vz", "amalgebra.tensors", "VectorOperator", ("label", "label"), "z"),
         Constructor("create", "amalgebra.bosons", "BosonMode", ("label",), "create"),
         Constructor("annihilate", "amalgebra.bosons", "BosonMode", ("label",), "annihilate"),
         Constructor("number", "amalgebra.bosons", "BosonMode", ("label",), "number"),
@@ -612,13 +618,12 @@ def _write_constructed(e):
                 except (ImportError, AttributeError, TypeError, ValueError):
                     pass
             continue
-        if spec.kinds == ("label",):
-            for label in labels:
-                if not is_valid_name(label):
-                    continue
+        if all(kind == "label" for kind in spec.kinds):
+            valid = [label for label in labels if is_valid_name(label)]
+            for chosen in itertools.permutations(valid, len(spec.kinds)):
                 try:
-                    if spec.build([label]) == e:
-                        return f"{spec.name}({label})"
+                    if spec.build(list(chosen)) == e:
+                        return f"{spec.name}({', '.join(chosen)})"
                 except (ImportError, AttributeError, TypeError, ValueError):
-                    break
+                    continue
     return None

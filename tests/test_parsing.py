@@ -236,6 +236,22 @@ def test_boson_operators_round_trip_through_the_grammar():
     assert parse("number(a) - create(a)*annihilate(a)") == a.number - a.create*a.annihilate != 0
 
 
+def test_vector_operator_components_round_trip_through_the_grammar():
+    # Stored results of the dipole-selection derivation hold vector-operator components.
+    from amalgebra.algebra import AngularMomentum, canonical
+    from amalgebra.tensors import VectorOperator
+
+    L, r = AngularMomentum("L"), VectorOperator("r", "L")
+    assert parse("Vz(r, L)") == r.z
+    assert to_text(3*L.plus*r.z) == "3*Jplus(L)*Vz(r, L)"
+    e = canonical(L.squared*r.x - I*r.y*L.z)
+    assert parse(to_text(e)) == e
+    with pytest.raises(ParseError, match="takes 2 argument"):
+        parse("Vx(r)")
+    with pytest.raises(ParseError, match="bare label"):
+        parse("Vx(r, 2)")
+
+
 def test_leading_minus_binds_to_the_whole_product():
     # Regression: hypothesis found -(x + y)*sin(sin(1)) coming back as (-x - y)*sin(sin(1))
     # because the minus was applied to (x + y) alone, which SymPy distributes.
