@@ -72,8 +72,7 @@ from sympy import Add, Matrix, Rational, S, Tuple, expand, simplify, sqrt
 from sympy.printing.defaults import Printable
 
 from . import notation
-from .algebra.convert import _check_expr, kernel_of
-from .algebra.modes import ANGULAR_MOMENTUM
+from .algebra.convert import _check_expr, angular_momentum_kernel
 from .errors import ConventionError, NotNumericError, OperatorError, QuantumNumberError
 from .multiplet_matrices import (check_reduced, kernel_only, multiplet_basis, multiplet_matrix,
                                  require_numpy, require_scipy_sparse)
@@ -115,15 +114,7 @@ def _check_j(j):
 def _plan(expr, jvals):
     """Convert to the kernel (one j per label) and return what the builders need."""
     labels = sorted(jvals)
-    algebra, (element,) = kernel_of(expr, extra_labels=labels)
-    unknown = [label for label in algebra.labels if label not in jvals]
-    if unknown:
-        raise OperatorError(f"label={unknown[0]!r} of the expression must be given a j value "
-                            f"(j has {labels})")
-    for label, mode in zip(algebra.labels, algebra.modes):
-        if mode is not ANGULAR_MOMENTUM:
-            raise OperatorError(f"label={label!r} must be an angular momentum for to_matrix "
-                                f"(it is a {mode.kind} mode)")
+    algebra, element = angular_momentum_kernel(expr, labels, "to_matrix", "a j value")
     dims = [int(2 * jvals[label]) + 1 for label in labels]
     return algebra, element, labels, jvals, dims
 

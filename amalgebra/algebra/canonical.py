@@ -56,7 +56,7 @@ from sympy.core.sympify import _sympify
 from sympy.polys.polyerrors import CoercionFailed, GeneratorsError, PolynomialError
 
 from ..errors import OperatorError
-from .convert import kernel_of
+from .convert import angular_momentum_kernel, kernel_of
 from .extensions import kernel_for
 from .modes import ANGULAR_MOMENTUM
 from .shiftform import _IOTA, _ring, _sum
@@ -225,16 +225,7 @@ def ladder_terms(expr, jsq, mz):
     mz = _values(mz, "mz")
     if sorted(jsq) != sorted(mz):
         raise OperatorError(f"mz keys {sorted(mz)} must equal jsq keys {sorted(jsq)}")
-    labels = sorted(jsq)
-    algebra, (element,) = kernel_of(expr, extra_labels=labels)
-    missing = [label for label in algebra.labels if label not in jsq]
-    if missing:
-        raise OperatorError(f"label={missing[0]!r} of expr must be given in jsq and mz "
-                            f"(given: {labels})")
-    for label, mode in zip(algebra.labels, algebra.modes):
-        if mode is not ANGULAR_MOMENTUM:
-            raise OperatorError(f"label={label!r} must be an angular momentum for ladder_terms "
-                                f"(it is a {mode.kind} mode)")
+    algebra, element = angular_momentum_kernel(expr, sorted(jsq), "ladder_terms", "in jsq and mz")
     values = []
     for i, label in enumerate(algebra.labels):
         values.append((algebra.var_index[i][0], jsq[label]))

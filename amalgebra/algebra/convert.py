@@ -46,10 +46,11 @@ from sympy.polys.polytools import parallel_poly_from_expr
 from sympy.polys.polyerrors import CoercionFailed
 
 from ..errors import OperatorError
-from .modes import mode_of
+from .modes import ANGULAR_MOMENTUM, mode_of
 from .shiftform import Element, ShiftAlgebra
 
-__all__ = ["kernel_of", "build_algebra", "to_kernel", "scan", "operator_power_base", "choose_domain"]
+__all__ = ["kernel_of", "build_algebra", "to_kernel", "scan", "operator_power_base", "choose_domain",
+           "angular_momentum_kernel"]
 
 
 def _check_expr(expr, name="expr"):
@@ -177,7 +178,6 @@ def build_algebra(*exprs, extra_labels=()):
     modes, scalars = {}, {}
     for expr in exprs:
         scan(expr, modes, scalars)
-    from .modes import ANGULAR_MOMENTUM
     for label in extra_labels:
         modes.setdefault(label, (ANGULAR_MOMENTUM, set()))
     constants = []
@@ -279,6 +279,20 @@ def _direct(algebra, factors, memo, num=None, den=1):
     if not num:
         return Element()
     return Element({tuple(shift): algebra.lift(num, tuple(mon))}, den)
+
+
+def angular_momentum_kernel(expr, labels, purpose, given):
+    """``(algebra, element)`` of ``expr`` over ``labels`` (sorted), which must cover every
+    label of ``expr``, each an angular momentum; ``purpose`` and ``given`` word the errors."""
+    algebra, (element,) = kernel_of(expr, extra_labels=labels)
+    missing = [label for label in algebra.labels if label not in labels]
+    if missing:
+        raise OperatorError(f"label={missing[0]!r} of expr must be given {given} (given: {list(labels)})")
+    for label, mode in zip(algebra.labels, algebra.modes):
+        if mode is not ANGULAR_MOMENTUM:
+            raise OperatorError(f"label={label!r} must be an angular momentum for {purpose} "
+                                f"(it is a {mode.kind} mode)")
+    return algebra, element
 
 
 def kernel_of(*exprs, extra_labels=()):
