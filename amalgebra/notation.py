@@ -11,15 +11,16 @@ patched and no global state is kept.
 
 The functions are grouped by object kind and named ``<kind>_str``,
 ``<kind>_pretty`` and ``<kind>_latex``; each takes ``(printer, obj)``.
-Multi-letter labels are set upright in LaTeX (``\mathrm{S1}``), one-letter
-labels italic.  The notation table (str / LaTeX):
+Trailing digits of a label become a subscript in LaTeX (``S1`` prints
+``{S_{1}}``, ``S1.z`` prints ``S_{1z}``), other multi-letter labels are set
+upright (``\mathrm{Sb}``), one-letter labels italic.  The notation table (str / LaTeX):
 
 ========================  =================================  ========================================================
 object                    str                                LaTeX
 ========================  =================================  ========================================================
 ``AngularMomentum("J")``  ``AngularMomentum('J')``           ``\mathbf{J}``
 ``J.z``, ``J.plus``       ``J.z``, ``J.plus``                ``J_{z}``, ``J_{+}``
-``J.squared``             ``J.squared``                      ``\left(J^{2}\right)`` (superscript protected)
+``J.squared``             ``J.squared``                      ``J^{2}`` (``\left(J^{2}\right)^{3}`` under a power)
 ``Ket(1, 0, "S")``        ``|1, 0>_S``                       ``{\left|1, 0\right\rangle}_{S}``
 ``Bra(1, 0, "S")``        ``<1, 0|_S``                       ``{\left\langle 1, 0\right|}_{S}``
 coupled ket               ``|(1_A 1_B)2, 0>``                ``\left|\left(1_{A} 1_{B}\right) 2, 0\right\rangle``
@@ -28,7 +29,7 @@ Fock ket                  ``|2, 1>_(a,b)``                   ``{\left|2, 1\right
 D-matrix element          ``D^{1}_{1,0}(a, b, c)``           ``D^{1}_{1,0}\left(a,b,c\right)``
 reduced matrix element    ``<1||T^(1)||1>``                  ``\langle 1 \| T^{(1)} \| 1 \rangle``
 tensor component          ``T^(1)_(0)``                      ``{T^{(1)}_{0}}``
-CG symbol                 ``CG(1, 0, 1, 0 | 2, 0)``          ``\left\langle 1, 0; 1, 0 \middle| 2, 0 \right\rangle``
+CG symbol                 ``<1, 0; 1, 0|2, 0>``              ``\left\langle 1, 0; 1, 0 \middle| 2, 0 \right\rangle``
 3j symbol                 ``3j(1, 1, 2; 0, 0, 0)``           ``\begin{pmatrix} 1 & 1 & 2 \\ 0 & 0 & 0 \end{pmatrix}``
 6j symbol                 ``6j{1, 1, 1; 1, 1, 1}``           ``\begin{Bmatrix}`` 2 x 3 ``\end{Bmatrix}``
 9j symbol                 ``9j{a, b, c; d, e, f; g, h, i}``  ``\begin{Bmatrix}`` 3 x 3 ``\end{Bmatrix}``
@@ -41,7 +42,7 @@ Examples
 >>> from amalgebra.states.kets import Ket
 >>> k = Ket(1, 0, "S1")
 >>> str(k), latex(k)
-('|1, 0>_S1', '{\\left|1, 0\\right\\rangle}_{\\mathrm{S1}}')
+('|1, 0>_S1', '{\\left|1, 0\\right\\rangle}_{{S_{1}}}')
 >>> pretty(k, use_unicode=False)
 '|1, 0>_S1'
 
@@ -64,15 +65,20 @@ References
        ch. 3 and 6 (notation of the 3j, 6j and 9j symbols).
 """
 
-from sympy import ImmutableMatrix
+import re
+
+from sympy import ImmutableMatrix, Symbol
+from sympy.printing.precedence import PRECEDENCE
 from sympy.printing.pretty.pretty_symbology import pretty_symbol
 from sympy.printing.pretty.stringpict import prettyForm, stringPict
 
 __all__ = [
-    "NotationHooks",
+    "NotationHooks", "CodeHooks", "kernel_code",
+    "coupling_matrix_latex", "element_table_latex", "decomposition_latex",
+    "equation_pair_latex", "rotation_composition_latex",
     "label_latex",
     "angular_momentum_str", "angular_momentum_latex", "angular_momentum_pretty",
-    "component_str", "component_latex", "component_pretty",
+    "component_str", "component_latex", "component_pretty", "component_precedence",
     "state_str", "state_latex", "state_pretty",
     "product_str", "product_latex", "product_pretty",
     "coupled_str", "coupled_latex", "coupled_pretty",
@@ -103,13 +109,27 @@ _SUBSCRIPT = {"x": "\N{LATIN SUBSCRIPT SMALL LETTER X}", "plus": "\N{SUBSCRIPT P
 
 # -- shared pieces -----------------------------------------------------------------------------
 
-def label_latex(label):
-    r"""A label in LaTeX: one letter italic, longer labels upright (``\mathrm{S1}``).
+def _label_parts(label):
+    """``(head, digits)`` of a label: ``"I1"`` -> ``("I", "1")``, ``"Sb"`` -> ``("Sb", "")``."""
+    match = re.fullmatch(r"([A-Za-z]+?)(\d+)", label)
+    return (match.group(1), match.group(2)) if match else (label, "")
 
-    >>> label_latex("J"), label_latex("S1")
-    ('J', '\\mathrm{S1}')
+
+def _head_latex(head):
+    return head if len(head) == 1 else r"\mathrm{%s}" % head
+
+
+def label_latex(label):
+    r"""A label in LaTeX: one letter italic, longer labels upright, trailing digits a subscript.
+
+    A label with trailing digits is braced (``{I_{1}}``), so that a caller may
+    append its own subscript or superscript and stay valid TeX.
+
+    >>> label_latex("J"), label_latex("Sb"), label_latex("I1"), label_latex("S1b")
+    ('J', '\\mathrm{Sb}', '{I_{1}}', '\\mathrm{S1b}')
     """
-    return label if len(label) == 1 else r"\mathrm{%s}" % label
+    head, digits = _label_parts(label)
+    return _head_latex(head) if not digits else r"{%s_{%s}}" % (_head_latex(head), digits)
 
 
 def _unicode(printer):
@@ -179,9 +199,36 @@ def component_str(printer, obj):
 
 
 def component_latex(printer, obj, exp=None):
-    # J^{2} would read J^{2}^{n} under a power: protect the superscript
-    tex = printer.parenthesize_super(_COMPONENT_LATEX[obj.component].format(label_latex(obj.label)))
-    return tex if exp is None else "{%s}^{%s}" % (tex, exp)
+    r"""``J_{z}``, ``I_{1z}`` (label digits join the component subscript), ``J^{2}``.
+
+    A lone ``J.squared`` prints ``J^{2}``; under a power SymPy parenthesizes it
+    (``\left(J^{2}\right)^{3}``) because :func:`component_precedence` gives it
+    the precedence of a power.
+
+    >>> from sympy import latex
+    >>> from amalgebra.algebra.operators import AngularMomentum
+    >>> I1 = AngularMomentum("I1")
+    >>> latex(I1.z), latex(I1.plus), latex(I1.squared), latex(I1.squared**2)
+    ('I_{1z}', 'I_{1+}', 'I_{1}^{2}', '\\left(I_{1}^{2}\\right)^{2}')
+    """
+    head, digits = _label_parts(obj.label)
+    template = _COMPONENT_LATEX[obj.component]
+    if digits and obj.component != "squared":
+        tex = template.replace("{{", "{{" + digits, 1).format(_head_latex(head))
+    elif digits:
+        tex = template.format(r"%s_{%s}" % (_head_latex(head), digits))
+    else:
+        tex = template.format(_head_latex(head))
+    return tex if exp is None else "{%s}^{%s}" % (printer.parenthesize_super(tex), exp)
+
+
+def component_precedence(obj):
+    """SymPy precedence of a component: a power for ``J.squared``, an atom otherwise.
+
+    Read by ``sympy.printing.precedence.precedence`` (the ``precedence``
+    attribute), so every printer parenthesizes a power of ``J^{2}``.
+    """
+    return PRECEDENCE["Pow"] if obj.component == "squared" else PRECEDENCE["Atom"]
 
 
 def component_pretty(printer, obj):
@@ -444,8 +491,9 @@ def tensor_components_pretty(printer, obj):
 # -- coupling symbols --------------------------------------------------------------------------
 
 def cg_symbol_str(printer, obj):
+    """``<j1, m1; j2, m2|J, M>``: the physicists' bracket, read back by :mod:`amalgebra.parsing`."""
     j1, m1, j2, m2, J, M = (printer._print(a) for a in obj.args)
-    return f"CG({j1}, {m1}, {j2}, {m2} | {J}, {M})"
+    return f"<{j1}, {m1}; {j2}, {m2}|{J}, {M}>"
 
 
 def cg_symbol_latex(printer, obj, exp=None):
@@ -524,6 +572,219 @@ def identity_check_pretty(printer, obj):
     return prettyForm(str(obj))
 
 
+# -- coupling trees ----------------------------------------------------------------------------
+
+def name_latex(name):
+    r"""A momentum name in LaTeX: trailing digits become a subscript (``l1`` -> ``l_{1}``).
+
+    >>> name_latex("l1"), name_latex("J"), name_latex("j12"), name_latex("S1b")
+    ('l_{1}', 'J', 'j_{12}', '\\mathrm{S1b}')
+    """
+    match = re.fullmatch(r"([A-Za-z]+?)(\d+)", name)
+    if match:
+        return r"%s_{%s}" % (label_latex(match.group(1)), match.group(2))
+    return label_latex(name)
+
+
+def _tree_text(node, leaf, join):
+    if isinstance(node, str):
+        return leaf(node)
+    return join(_tree_text(node[0], leaf, join), _tree_text(node[1], leaf, join), leaf(node[2]), node)
+
+
+def _tree_values(obj):
+    return [(name, value) for name, value in obj.values.items() if value != Symbol(name)]
+
+
+def coupling_tree_str(printer, obj):
+    def join(left, right, name, node):
+        sep = ", " if not isinstance(node[0], str) or not isinstance(node[1], str) else " "
+        return f"({left}{sep}{right}) {name}"
+
+    text = _tree_text(obj.structure, str, join)
+    given = _tree_values(obj)
+    if given:
+        text += " [" + ", ".join(f"{n}={printer._print(v)}" for n, v in given) + "]"
+    return text
+
+
+def coupling_tree_latex(printer, obj, exp=None):
+    def join(left, right, name, node):
+        sep = r",\, " if not isinstance(node[0], str) or not isinstance(node[1], str) else r"\, "
+        return r"\left(%s%s%s\right) %s" % (left, sep, right, name)
+
+    tex = _tree_text(obj.structure, name_latex, join)
+    given = _tree_values(obj)
+    if given:
+        tex += r"\quad \left(%s\right)" % ",\\, ".join(
+            "%s = %s" % (name_latex(n), printer._print(v)) for n, v in given)
+    return _with_power(tex, exp)
+
+
+def coupling_tree_pretty(printer, obj):
+    return prettyForm(coupling_tree_str(printer, obj))
+
+
+def _assignment_text(printer, values):
+    return ", ".join(f"{n}={printer._print(v)}" for n, v in values.items())
+
+
+def recoupling_matrix_str(printer, obj):
+    printer = printer or _PlainPrinter()
+    lines = [f"recoupling matrix <{obj.first} | {obj.second}> (Condon-Shortley phases)"]
+    for total, (rows, cols, matrix) in obj.blocks.items():
+        lines.append(f"  {obj.first.total_name}={printer._print(total)}: rows "
+                     + "; ".join(_assignment_text(printer, r) for r in rows)
+                     + " | columns " + "; ".join(_assignment_text(printer, c) for c in cols))
+        for i in range(matrix.shape[0]):
+            lines.append("    [" + ", ".join(printer._print(matrix[i, k]) for k in range(matrix.shape[1])) + "]")
+    return "\n".join(lines)
+
+
+def recoupling_matrix_latex(printer, obj, exp=None):
+    parts = []
+    for total, (rows, cols, matrix) in obj.blocks.items():
+        head = " & ".join(",".join(printer._print(v) for v in c.values()) for c in cols)
+        body = r" \\ ".join(
+            ",".join(printer._print(v) for v in r.values()) + " & "
+            + " & ".join(printer._print(matrix[i, k]) for k in range(matrix.shape[1]))
+            for i, r in enumerate(rows))
+        parts.append(r"%s = %s:\ \begin{array}{r|%s} & %s \\ \hline %s \end{array}" % (
+            name_latex(obj.first.total_name), printer._print(total), "c" * matrix.shape[1], head, body))
+    return r",\qquad ".join(parts)
+
+
+def recoupling_matrix_pretty(printer, obj):
+    return prettyForm(recoupling_matrix_str(printer, obj))
+
+
+class _PlainPrinter:
+    def _print(self, obj):
+        return str(obj)
+
+
+def _tensor_head(printer, op):
+    """The family name of a tensor (``T^(1)``, ``I``) as str."""
+    if hasattr(op, "rank") and hasattr(op, "name") and not hasattr(op, "first"):
+        return f"{op.name}^({printer._print(op.rank)})"
+    if hasattr(op, "first"):
+        return coupled_tensor_operator_str(printer, op)
+    return op.label
+
+
+def coupled_tensor_operator_str(printer, obj):
+    return (f"[{_tensor_head(printer, obj.first)} x {_tensor_head(printer, obj.second)}]"
+            f"^({printer._print(obj.rank)})")
+
+
+def _tensor_head_latex(printer, op):
+    if hasattr(op, "first"):
+        return coupled_tensor_operator_latex(printer, op)
+    if hasattr(op, "rank") and hasattr(op, "name"):
+        return r"%s^{(%s)}" % (label_latex(op.name), printer._print(op.rank))
+    return r"\mathbf{%s}" % name_latex(op.label)
+
+
+def coupled_tensor_operator_latex(printer, obj, exp=None):
+    tex = r"\left[%s \times %s\right]^{(%s)}" % (_tensor_head_latex(printer, obj.first),
+                                                  _tensor_head_latex(printer, obj.second),
+                                                  printer._print(obj.rank))
+    return _with_power(tex, exp)
+
+
+def coupled_tensor_operator_pretty(printer, obj):
+    text = coupled_tensor_operator_str(printer, obj)
+    return prettyForm(text.replace(" x ", " \N{MULTIPLICATION SIGN} ") if _unicode(printer) else text)
+
+
+def _tree_state_text(obj, leaf, join, number):
+    values = obj.tree.values
+
+    def walk(node):
+        if isinstance(node, str):
+            return leaf(number(values[node]), node)
+        return join(walk(node[0]), walk(node[1]), number(values[node[2]]), node)
+
+    return walk(obj.tree.structure)
+
+
+def tree_state_str(printer, obj):
+    def join(left, right, value, node):
+        sep = ", " if not isinstance(node[0], str) or not isinstance(node[1], str) else " "
+        return f"({left}{sep}{right}){value}"
+
+    body = _tree_state_text(obj, lambda v, lab: f"{v}_{lab}", join, printer._print)
+    body = f"{body}, {printer._print(obj.M)}"
+    return f"|{body}>" if _is_ket(obj) else f"<{body}|"
+
+
+def tree_state_latex(printer, obj, exp=None):
+    def join(left, right, value, node):
+        sep = r",\, " if not isinstance(node[0], str) or not isinstance(node[1], str) else r"\, "
+        return r"\left(%s%s%s\right) %s" % (left, sep, right, value)
+
+    body = _tree_state_text(obj, lambda v, lab: r"%s_{%s}" % (v, name_latex(lab)), join, printer._print)
+    body = r"%s, %s" % (body, printer._print(obj.M))
+    tex = r"\left|%s\right\rangle" % body if _is_ket(obj) else r"\left\langle %s\right|" % body
+    return _with_power(tex, exp)
+
+
+def tree_state_pretty(printer, obj):
+    text = tree_state_str(printer, obj)
+    left, right = _angles(printer)
+    # the str form's ASCII angle becomes the printer's (Unicode) one, as for coupled kets
+    return prettyForm(text[:-1] + right if _is_ket(obj) else left + text[1:])
+
+
+def triangle_delta_str(printer, obj):
+    return "TriangleDelta(%s)" % ", ".join(printer._print(a) for a in obj.args)
+
+
+def triangle_delta_latex(printer, obj, exp=None):
+    return _with_power(r"\Delta\left(%s\right)" % ", ".join(printer._print(a) for a in obj.args), exp)
+
+
+def triangle_delta_pretty(printer, obj):
+    head = "\N{GREEK CAPITAL LETTER DELTA}" if _unicode(printer) else "Delta"
+    return _join(printer, [head + "(", *_comma_list(obj.args), ")"])
+
+
+# -- more result objects (LaTeX for notebooks; str stays each class's own repr) -------------------
+
+def basis_latex(printer, obj, exp=None):
+    rows = r" \\ ".join(r"%d: & %s" % (i, printer._print(state)) for i, state in enumerate(obj.states))
+    return r"\begin{array}{rl} %s \end{array}" % rows if rows else r"\text{empty basis}"
+
+
+def eigenvalues_latex(printer, obj, exp=None):
+    parts = [r"%s \ (\times %s)" % (printer._print(root), printer._print(mult)) for root, mult in obj.roots.items()]
+    if obj.unsolved:
+        parts.append(text_latex("unsolved: ") + ",\\ ".join(printer._print(f) for f, _ in obj.unsolved) + " = 0")
+    return r"\left\{%s\right\}" % r",\ ".join(parts) if parts else text_latex("no eigenvalues")
+
+
+def reduction_latex(printer, obj, exp=None):
+    status = "complete" if obj.complete else "partial: " + str(obj.reason)
+    return r"%s \quad %s" % (printer._print(obj.result), text_latex("(" + status + ")"))
+
+
+def reduction_step_latex(printer, obj, exp=None):
+    return r"%s \quad %s" % (printer._print(obj.expr), text_latex("(" + obj.rule + ")"))
+
+
+def reduction_check_latex(printer, obj, exp=None):
+    return text_latex(str(obj))
+
+
+def total_blocks_latex(printer, obj, exp=None):
+    rows = [r"%s:\ %s" % (printer._print(total), printer._print(matrix)) for total, (states, matrix) in obj.items()]
+    return r",\qquad ".join(rows) if rows else r"\text{no states}"
+
+
+def coupling_table_latex(printer, obj, exp=None):
+    return text_latex(repr(obj))
+
+
 class NotationHooks:
     """Mixin giving a class its three printing hooks from one stem of this module.
 
@@ -543,3 +804,110 @@ class NotationHooks:
 
     def _pretty(self, printer):
         return globals()[f"{self._notation_key}_pretty"](printer, self)
+
+
+# -- result containers (amalgebra.results) -----------------------------------------------------
+
+def coupling_matrix_latex(printer, obj, exp=None):
+    r"""``U`` as an array: coupled kets over the columns, uncoupled kets beside the rows.
+
+    >>> from sympy import latex
+    >>> from amalgebra.states.coupled import coupling_matrix
+    >>> tex = latex(coupling_matrix([0, "1/2"], ("L", "S")))
+    >>> tex.startswith(r"\begin{array}{r|cc}") and tex.count(r"\\") == 2
+    True
+    """
+    U, uncoupled, coupled = obj
+    head = " & ".join(printer._print(k) for k in coupled)
+    rows = [" & ".join([printer._print(uncoupled[i])] + [printer._print(U[i, k]) for k in range(U.shape[1])])
+            for i in range(U.shape[0])]
+    return r"\begin{array}{r|%s} & %s \\ \hline %s \end{array}" % ("c" * U.shape[1], head, r" \\ ".join(rows))
+
+
+def element_table_latex(printer, obj, exp=None):
+    r"""Rows ``m' & q & m & <j' m'|T^k_q|j m>``, in the table's order.
+
+    >>> from sympy import latex
+    >>> from amalgebra.tensors.wigner_eckart import element_table
+    >>> latex(element_table(0, 0, 0, 1))
+    "\\begin{array}{rrr|l} m' & q & m & \\text{element} \\\\ \\hline 0 & 0 & 0 & 1 \\end{array}"
+    """
+    rows = [" & ".join(printer._print(x) for x in (*key, value)) for key, value in obj.items()]
+    return r"\begin{array}{rrr|l} m' & q & m & \text{element} \\ \hline %s \end{array}" % r" \\ ".join(rows)
+
+
+def decomposition_latex(printer, obj, exp=None):
+    r"""One line ``X^{(k)}_{q} = ...`` per component, ranks increasing, ``q`` from ``k`` down.
+
+    >>> from sympy import latex
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> from amalgebra.tensors.irreducible import decompose
+    >>> latex(decompose(AngularMomentum("J").z))
+    '\\begin{aligned} X^{(1)}_{1} &= 0 \\\\ X^{(1)}_{0} &= J_{z} \\\\ X^{(1)}_{-1} &= 0 \\end{aligned}'
+    """
+    rows = [r"X^{(%s)}_{%s} &= %s" % (printer._print(k), printer._print(q), printer._print(part))
+            for k, parts in obj.items() for q, part in parts.items()]
+    return r"\begin{aligned} %s \end{aligned}" % r" \\ ".join(rows) if rows else "0"
+
+
+def equation_pair_latex(printer, obj, exp=None):
+    r"""``lhs = rhs`` of a two-sided result (e.g. :func:`~amalgebra.rotations.harmonics.addition_theorem`).
+
+    >>> from sympy import latex, symbols
+    >>> from amalgebra.rotations.harmonics import addition_theorem
+    >>> t1, p1, t2, p2 = symbols("theta1 phi1 theta2 phi2", real=True)
+    >>> latex(addition_theorem(0, t1, p1, t2, p2))
+    '\\frac{1}{4 \\pi} = \\frac{1}{4 \\pi}'
+    """
+    return "%s = %s" % (printer._print(obj.lhs), printer._print(obj.rhs))
+
+
+def rotation_composition_latex(printer, obj, exp=None):
+    r"""The product matrix ``D^j(R1) D^j(R2)``; for numeric angles also the Euler triple and the defect."""
+    tex = printer._print(obj.matrix)
+    if obj.angles is not None:
+        tex += r",\quad (\alpha, \beta, \gamma) = \left(%s\right),\quad \text{defect } %s" % (
+            ", ".join(printer._print(a) for a in obj.angles), printer._print(obj.defect))
+    return tex
+
+
+# -- code printers (lambdify) ------------------------------------------------------------------
+
+def kernel_code(printer, obj):
+    """``float_call(kernel, *args)`` for the code printers of ``lambdify``.
+
+    ``obj._float_kernel`` is the float function; both names are registered with
+    the printer's imports (``lambdify`` imports them into the generated
+    function's namespace; ``pycode`` writes them fully qualified).
+    """
+    kernel = obj._float_kernel
+    call = printer._module_format("amalgebra.lambdify_kernels.float_call")
+    name = printer._module_format(f"{kernel.__module__}.{kernel.__name__}")
+    return f"{call}({', '.join([name, *(printer._print(a) for a in obj.args)])})"
+
+
+class CodeHooks:
+    """Mixin giving numeric symbols the code-printer hooks used by ``sympy.lambdify``.
+
+    A class listed with it sets ``_float_kernel`` to a module-level float
+    function taking the same arguments as ``.args``.  The Python and SymPy code
+    printers call ``_pythoncode``, the NumPy and SciPy printers ``_numpycode`` and
+    the mpmath printer ``_mpmathcode`` (see :mod:`amalgebra.lambdify_kernels`).
+
+    >>> from sympy import lambdify
+    >>> from amalgebra.coupling.symbols import Coupling6j
+    >>> lambdify([], Coupling6j(1, 1, 1, 1, 1, 1))() == 1 / 6     # 6j{1 1 1; 1 1 1} = 1/6
+    True
+    """
+
+    __slots__ = ()
+    _float_kernel = None
+
+    def _pythoncode(self, printer):
+        return kernel_code(printer, self)
+
+    def _numpycode(self, printer):
+        return kernel_code(printer, self)
+
+    def _mpmathcode(self, printer):
+        return kernel_code(printer, self)

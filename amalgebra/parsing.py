@@ -15,32 +15,69 @@ The grammar, in order of increasing binding strength::
     product := power (("*" | "/") power)*
     power   := atom | atom ("^" | "**") signed   (right associative)
     signed  := "-" signed | "+" signed | power    (exponents only)
+    atom    := INTEGER | DECIMAL | NAME | NAME "(" expr ("," expr)* ")" | "(" expr ")"
+             | a printed form of the library (below)
 
 A leading minus sign applies to the whole product after it (``-(x + y)*z`` is
 ``Mul(-1, x + y, z)``, which SymPy keeps undistributed, as it does for the same
 expression typed in Python).
-    atom    := INTEGER | NAME | NAME "(" expr ("," expr)* ")" | "(" expr ")"
 
 A chain of terms becomes one ``Add(*terms)`` and a chain of factors one
 ``Mul(*factors)`` (``a/b`` is ``a*b^(-1)``), exactly as SymPy builds them, so that
 noncommutative order and SymPy's automatic evaluation are reproduced faithfully.
 
-* ``INTEGER`` is a string of decimal digits; ``3/2`` is an exact rational.  There are
+* ``INTEGER`` is a string of decimal digits; ``3/2`` is an exact rational.  A decimal
+  literal ``72.222`` (digits, a point, digits) is the exact rational ``72222/1000``.  There are
   no floats, no string literals, no attribute access and no indexing.
-* ``NAME`` is ``[A-Za-z_][A-Za-z0-9_]*`` (or begins with an allow-listed Greek letter,
-  see :data:`GREEK_LETTERS`); names beginning with ``__`` are refused.  The names
+* ``NAME`` is ``[A-Za-z_][A-Za-z0-9_]*``, or allow-listed Greek letters
+  (:data:`GREEK_LETTERS`) with digits and ``_``; names beginning with ``__`` are refused.
+  Confusable names are refused (the confusable rule): each name is written in one script
+  (``"οmega"`` with a Greek omicron is refused), a name must not read like a reserved
+  name through a Greek look-alike (``"ρι"``, rho iota, reads like ``pi``), and two distinct
+  names of one text must not share a :func:`skeleton` (``o`` beside Greek ``ο``, ``k1``
+  beside ``κ1``); :data:`LOOKALIKES` is the skeleton map.  Characters outside the grammar
+  are named by code point in the error (``'а' is U+0430 CYRILLIC SMALL LETTER A``).  The names
   ``I`` (imaginary unit) and ``pi`` are constants (Euler's number is written
   ``exp(1)``); every other name is a commutative :class:`~sympy.core.symbol.Symbol`
   without assumptions (callers that need assumptions rebind symbols by name).
 * Calls are allowed only to the functions of :data:`FUNCTIONS` (``sqrt``, ``exp``,
   ``sin``, ``cos``, ``sinh``, ``cosh`` -- SymPy turns ``cos(I)`` into ``cosh(1)`` --
-  and ``KroneckerDelta``) and to the operator constructors of
-  :data:`CONSTRUCTORS` (``Jx(J)``, ``Jy(J)``, ``Jz(J)``, ``Jplus(J)``, ``Jminus(J)``,
-  ``Jsq(J)`` for the components of the angular momentum labelled ``J``;
-  ``Vx(r, L)``, ``Vy(r, L)``, ``Vz(r, L)`` for the Cartesian components of the
-  (Hermitian) vector operator ``r`` under ``L``; ``ket(j, m, J)`` and
-  ``bra(j, m, J)`` for the states of that label), which are imported lazily on
-  first use.
+  and ``KroneckerDelta``) and to the constructors of :data:`CONSTRUCTORS`, imported
+  lazily on first use.
+* The library's printed forms (the ``str`` of its objects, see :mod:`amalgebra.notation`)
+  are atoms of the grammar, so ``parse(str(x)) == x`` wherever that text says everything
+  the object holds:
+
+  - ``J.x``, ``J.plus``, ``J.squared``: components of ``AngularMomentum("J")``;
+    ``a.create``, ``a.annihilate``, ``a.number``: the operators of ``BosonMode("a")``;
+  - ``AngularMomentum('J')``, ``BosonMode('a')``, ``VectorOperator('r', 'L')``: the objects;
+  - ``r[L].z``: a component of ``VectorOperator("r", "L")`` (printed ``r.z``, which does not
+    say the label and reads as a component of ``AngularMomentum("r")``);
+  - ``T^(2)[J]`` and ``T^(2)[J]_(1)``: ``SphericalTensor("T", 2, label="J")`` and a component
+    (printed ``T^(2)_(1)``, refused without the label);
+  - ``|j, m>_J``, ``<j, m|_J``: ket and bra of label ``J``; ``|1, 0>_L|1/2, 1/2>_S``: a
+    product ket (bras likewise); ``|(1_L 1/2_S)3/2, 1/2>``: a coupled ket
+    (``|((1_L 1/2_S)3/2 1_I)5/2, 1/2>`` for three momenta); ``|2, 1>_(a,b)``: a Fock ket;
+  - ``<jp||T^(2)||j>``, ``<1||T^(2)||1>_cg``: reduced matrix elements (Edmonds
+    normalisation, or the convention named after ``_``);
+  - ``D^{j}_{m',m}(alpha, beta, gamma)``: a Wigner D element;
+  - ``<j1, m1; j2, m2|J, M>``, ``3j(j1, j2, j3; m1, m2, m3)``, ``6j{a, b, c; d, e, f}``,
+    ``9j{a, b, c; d, e, f; g, h, i}``: the unevaluated coupling symbols
+    (:class:`~amalgebra.coupling.symbols.CouplingBracket`, ``Coupling3j``, ``Coupling6j``,
+    ``Coupling9j``);
+  - ``((l s) j, I) F [l=2, s=1/2]``: a coupling tree with its given values;
+    ``[T^(2)[J] x U^(1)[S]]^(2)``: a coupled tensor operator (printed without the labels);
+  - ``TensorComponents(2, (a, b, ...))``, ``TriangleDelta(a, b, c)``, ``TreeKet(tree, M)``,
+    ``TreeBra(tree, M)``: calls (a tree ket prints like a coupled ket, without the names of
+    its intermediate momenta, so :func:`to_text` writes the call).
+
+  A momentum inside a coupled ket is a number (``3/2``; a name ``j`` or a parenthesised
+  expression ``(2*j)`` is read too) joined to its label by ``_``; labels are ASCII
+  identifiers.  The spellings of the first grammar (``Jz(J)``, ``Jplus(J)``,
+  ``Vx(r, L)``, ``create(a)``, ``ket(j, m, J)``: :data:`LEGACY_SPELLINGS`) are still
+  read, never written.
+* Messages of :class:`~amalgebra.errors.ParseError` name the line and column and the kind
+  of the offending piece (a character by its code point), never the text itself.
 * :class:`ParseLimits` bounds the input length, integer digits, numeric exponents,
   the size of numbers built while parsing, and the nesting depth, so that inputs such
   as ``2^2^2^5`` are refused in microseconds instead of being computed.
@@ -81,6 +118,7 @@ References
 .. [2] SymPy issue #10805, "Safety" (why ``sympify`` must not see untrusted text).
 """
 
+import contextvars
 import importlib
 import itertools
 import re
@@ -95,6 +133,9 @@ __all__ = [
     "CONSTRUCTORS",
     "FUNCTIONS",
     "GREEK_LETTERS",
+    "LOOKALIKES",
+    "LEGACY_SPELLINGS",
+    "skeleton",
     "parse",
     "to_text",
     "is_valid_name",
@@ -104,8 +145,96 @@ __all__ = [
 #: excluded so that ``π`` cannot be mistaken for the constant).
 GREEK_LETTERS = "αβγδεζηθικλμνξορστυφχψωΓΔΘΛΞΣΦΨΩ"
 
-_NAME_RE = re.compile(r"(?:[A-Za-z_]|[" + GREEK_LETTERS + r"])[A-Za-z0-9_]*\Z")
+_NAME_RE = re.compile(r"[A-Za-z_" + GREEK_LETTERS + r"][A-Za-z0-9_" + GREEK_LETTERS + r"]*\Z")
 _RESERVED = frozenset({"I", "pi"})
+
+#: The skeleton map of the confusable rule: each admitted Greek letter whose lower-case
+#: glyph reads as a Latin letter in common fonts, and that letter (after the idea of the
+#: "skeleton" of Unicode Technical Standard #39, restricted to the letters the grammar
+#: admits; the choice of letters is ours, from memory).  Letters that merely resemble one
+#: (chi, tau, omega, eta, mu, epsilon: a descender or a different shape tells them apart)
+#: are left out, so that ``eta*n`` or ``chi*x`` stay legal.
+LOOKALIKES = {"α": "a", "γ": "y", "ι": "i", "κ": "k", "ν": "v", "ο": "o", "ρ": "p", "υ": "u"}
+_SKELETON = str.maketrans(LOOKALIKES)
+
+
+def skeleton(name):
+    """``name`` with every Greek look-alike replaced by the Latin letter it reads as.
+
+    Two names with the same skeleton read alike (``"ο"``, Greek omicron, and ``"o"``).
+
+    >>> from amalgebra.parsing import skeleton
+    >>> skeleton("ρι"), skeleton("θ1"), skeleton("x")
+    ('pi', 'θ1', 'x')
+    """
+    return name.translate(_SKELETON)
+
+
+def _scripts(name):
+    """The scripts of the letters of ``name``: a subset of {"Latin", "Greek"}; digits and ``_`` have none."""
+    found = set()
+    for ch in name:
+        if ch.isascii():
+            if ch.isalpha():
+                found.add("Latin")
+        elif ch in GREEK_LETTERS:
+            found.add("Greek")
+    return found
+
+
+def _reserved_words():
+    return _RESERVED | set(FUNCTIONS) | set(CONSTRUCTORS)
+
+
+def _name_problem(name):
+    """Why ``name`` is not a grammar name (single script, not a look-alike of a reserved word), or None."""
+    if name.isascii():
+        return None  # ASCII is one script, and an ASCII name is its own skeleton
+    return _name_problem_among(name, tuple(sorted(_reserved_words())))
+
+
+@lru_cache(maxsize=4096)
+def _name_problem_among(name, words):
+    for word in words:
+        if name != word and skeleton(name) == skeleton(word):
+            return (f"name={name!r} must not read like the reserved name {word!r} "
+                    f"({_spelled_name(name)}): a Greek letter that looks like a Latin one is refused")
+    if len(_scripts(name)) > 1:
+        return (f"name={name!r} must be written in one script, Latin or Greek ({_spelled_name(name)}); "
+                "digits and '_' may join either")
+    return None
+
+
+def _spelled_name(name):
+    """The non-ASCII characters of ``name`` by code point and Unicode name."""
+    import unicodedata
+
+    parts = [f"{ch!r} is U+{ord(ch):04X} {unicodedata.name(ch, '?')}" for ch in dict.fromkeys(name)
+             if not ch.isascii()]
+    return "; ".join(parts) if parts else "all ASCII"
+
+
+def _spelled(ch):
+    """One character by code point and Unicode name (``U+0430 CYRILLIC SMALL LETTER A``)."""
+    import unicodedata
+
+    return f"U+{ord(ch):04X} {unicodedata.name(ch, 'unnamed')}"
+
+
+def _confusable_pair(names):
+    """The first two distinct names (sorted) of ``names`` that share a skeleton, or None."""
+    by_skeleton = {}
+    for name in sorted(set(names)):
+        other = by_skeleton.setdefault(skeleton(name), name)
+        if other != name:
+            return other, name
+    return None
+
+
+def _confusable_message(pair, where=""):
+    a, b = pair
+    return (f"names {a!r} and {b!r}{where} must not read alike ({_spelled_name(a + b)}): names that differ "
+            "only by a Greek letter looking like a Latin one are refused in one text")
 
 #: Functions callable from the grammar: name -> number of arguments.
 FUNCTIONS = {"sqrt": 1, "exp": 1, "sin": 1, "cos": 1, "sinh": 1, "cosh": 1, "KroneckerDelta": 2}
@@ -140,10 +269,12 @@ class Constructor:
 
     ``name(arg, ...)`` in text builds ``getattr(import_module(module), factory)(*args)``,
     then takes ``attribute`` of the result when one is given.  ``kinds`` says how each
-    argument is read: ``"label"`` (a bare name, passed as a ``str``) or ``"expr"`` (any
-    expression of the grammar).  Other engineers' classes (kets, D-matrix elements,
-    coupling symbols) are added by listing one more ``Constructor`` in
-    :data:`CONSTRUCTORS`; the module is imported only when the name is used.
+    argument is read: ``"label"`` (a bare name or a quoted label ``'J'``, passed as a
+    ``str``), ``"expr"`` (any expression of the grammar) or ``"tuple"`` (a parenthesised
+    list ``(a, b, ...)`` of expressions, passed as a ``tuple``).  A new call-shaped class
+    joins the grammar by one more ``Constructor`` in :data:`CONSTRUCTORS` (its module is
+    imported only when the name is used), and :func:`to_text` writes it when its class
+    name is ``factory`` (or when rebuilding from its labels gives it back).
 
     Parameters
     ==========
@@ -151,7 +282,7 @@ class Constructor:
     name : the name used in text.
     module : dotted module path, imported lazily.
     factory : attribute of that module to call.
-    kinds : tuple of ``"label"`` / ``"expr"``, one per argument.
+    kinds : tuple of ``"label"`` / ``"expr"`` / ``"tuple"``, one per argument.
     attribute : optional attribute of the built object (``"z"`` for ``.z``).
     """
 
@@ -166,7 +297,7 @@ class Constructor:
         return getattr(obj, self.attribute) if self.attribute else obj
 
 
-#: The operator constructors the grammar knows, by name.
+#: The calls the grammar knows, by name (printed forms that are not calls have grammar rules).
 CONSTRUCTORS = {
     c.name: c
     for c in (
@@ -184,8 +315,69 @@ CONSTRUCTORS = {
         Constructor("number", "amalgebra.bosons", "BosonMode", ("label",), "number"),
         Constructor("ket", "amalgebra.states", "Ket", ("expr", "expr", "label")),
         Constructor("bra", "amalgebra.states", "Bra", ("expr", "expr", "label")),
+        # the calls the library itself prints (str of these objects)
+        Constructor("AngularMomentum", "amalgebra.algebra", "AngularMomentum", ("label",)),
+        Constructor("BosonMode", "amalgebra.bosons", "BosonMode", ("label",)),
+        Constructor("VectorOperator", "amalgebra.tensors", "VectorOperator", ("label", "label")),
+        Constructor("TensorComponents", "amalgebra.tensors.products", "TensorComponents",
+                    ("expr", "tuple")),
+        Constructor("TriangleDelta", "amalgebra.racah.triangle", "TriangleDelta",
+                    ("expr", "expr", "expr")),
+        Constructor("TreeKet", "amalgebra.states.tree_kets", "TreeKet", ("expr", "expr")),
+        Constructor("TreeBra", "amalgebra.states.tree_kets", "TreeBra", ("expr", "expr")),
     )
 }
+
+#: Spellings of the first version of the grammar, still read (stored results written before
+#: 0.2.0 use them) but never written: :func:`to_text` writes the library's printed forms.
+LEGACY_SPELLINGS = ("Jx", "Jy", "Jz", "Jplus", "Jminus", "Jsq", "Vx", "Vy", "Vz", "create",
+                    "annihilate", "number", "ket", "bra")
+
+#: ``label.component`` in text: the family that owns each component name.
+_COMPONENTS = {
+    **{c: ("amalgebra.algebra", "AngularMomentum") for c in ("x", "y", "z", "plus", "minus", "squared")},
+    **{c: ("amalgebra.bosons", "BosonMode") for c in ("create", "annihilate", "number")},
+}
+
+#: Printed forms read by dedicated grammar rules: rule -> (module, class).
+_PRINTED = {
+    "ket": ("amalgebra.states.kets", "Ket"),
+    "bra": ("amalgebra.states.kets", "Bra"),
+    "kets": ("amalgebra.states.kets", "ProductKet"),
+    "bras": ("amalgebra.states.kets", "ProductBra"),
+    "coupled_ket": ("amalgebra.states.coupled", "CoupledKet"),
+    "coupled_bra": ("amalgebra.states.coupled", "CoupledBra"),
+    "fock_ket": ("amalgebra.bosons.fock", "FockKet"),
+    "fock_bra": ("amalgebra.bosons.fock", "FockBra"),
+    "reduced": ("amalgebra.tensors.wigner_eckart", "ReducedMatrixElement"),
+    "rotation": ("amalgebra.rotations.wigner", "RotationElement"),
+    "tensor": ("amalgebra.tensors", "SphericalTensor"),
+    "vector": ("amalgebra.tensors", "VectorOperator"),
+    "cg_bracket": ("amalgebra.coupling.symbols", "CouplingBracket"),
+    "threej": ("amalgebra.coupling.symbols", "Coupling3j"),
+    "sixj": ("amalgebra.coupling.symbols", "Coupling6j"),
+    "ninej": ("amalgebra.coupling.symbols", "Coupling9j"),
+    "tree": ("amalgebra.coupling.trees", "coupling_tree"),
+    "coupled_tensor": ("amalgebra.tensors.tree_elements", "CoupledTensorOperator"),
+}
+
+
+def _printed_class(rule):
+    module, name = _PRINTED[rule]
+    try:
+        return getattr(importlib.import_module(module), name)
+    except ImportError as exc:  # pragma: no cover - every module ships with the package
+        raise ParseError(f"{name} needs {module}, which cannot be imported: {exc}") from None
+
+
+class _Label:
+    """A quoted label ``'J'`` of a printed call such as ``AngularMomentum('J')``."""
+
+    __slots__ = ("name",)
+
+    def __init__(self, name):
+        self.name = name
+
 
 _GRAMMAR = r"""
 ?start: sum
@@ -199,15 +391,62 @@ _GRAMMAR = r"""
     | "+" signed -> pos
 ?power: atom
     | atom POW signed   -> pow
+    | headed
+    | headed POW signed -> pow
+?headed: atom POW "(" sum ")" "[" NAME "]" -> tensor
+    | atom POW "(" sum ")" "[" NAME "]" SUBPAREN sum ")" -> tensor_component
+    | atom POW "(" sum ")" SUBPAREN sum ")" -> unlabelled_component
+    | atom POW "{" sum "}" SUBBRACE sum "," sum "}" "(" sum "," sum "," sum ")" -> rotation
 ?atom: INT              -> integer
+    | DECIMAL           -> decimal
     | NAME              -> name
-    | NAME "(" sum ("," sum)* ")" -> call
+    | NAME "(" arg ("," arg)* ")" -> call
+    | NAME "." NAME     -> component
+    | NAME "[" NAME "]" "." NAME -> vector_component
     | "(" sum ")"
+    | ket+              -> kets
+    | bra+              -> bras
+    | "<" sum "," sum ";" sum "," sum "|" sum "," sum ">" -> cg_bracket
+    | "<" sum DBAR NAME POW "(" sum ")" DBAR sum (">" | KETEND) -> reduced
+    | THREEJ sum "," sum "," sum ";" sum "," sum "," sum ")" -> threej
+    | SIXJ sum "," sum "," sum ";" sum "," sum "," sum "}" -> sixj
+    | NINEJ sum "," sum "," sum ";" sum "," sum "," sum ";" sum "," sum "," sum "}" -> ninej
+    | "|" "(" inner ")" sum "," sum ">" -> coupled_ket
+    | "<" "(" inner ")" sum "," sum "|" -> coupled_bra
+    | "|" sum ("," sum)* FOCKKET NAME ("," NAME)* ")" -> fock_ket
+    | "<" sum ("," sum)* FOCKBRA NAME ("," NAME)* ")" -> fock_bra
+    | TREE ("[" assignment ("," assignment)* "]")? -> tree
+    | "[" power NAME power "]" POW "(" sum ")" -> coupled_tensor
+assignment: NAME "=" sum
+ket: "|" sum "," sum KETEND
+bra: "<" sum "," sum BRAEND
+inner: part part -> inner_pair
+    | "(" inner ")" sum part -> inner_chain
+part: LABELLED
+    | "(" sum ")" LABELSUFFIX
+?arg: sum
+    | QLABEL -> qlabel
+    | "(" sum ("," sum)+ ")" -> tuple
 POW: "^" | "**"
 ADDOP: "+" | "-"
 MULOP: "*" | "/"
+DBAR: "||"
 INT: /[0-9]+/
-NAME: /[A-Za-z_""" + GREEK_LETTERS + r"""][A-Za-z0-9_]*/
+DECIMAL.2: /[0-9]+\.[0-9]+/
+NAME: /[A-Za-z_""" + GREEK_LETTERS + r"""][A-Za-z0-9_""" + GREEK_LETTERS + r"""]*/
+QLABEL: /'[A-Za-z][A-Za-z0-9_]*'/
+KETEND.3: />_[A-Za-z][A-Za-z0-9_]*/
+BRAEND.3: /\|_[A-Za-z][A-Za-z0-9_]*/
+FOCKKET.4: />_\(/
+FOCKBRA.4: /\|_\(/
+SUBPAREN.3: "_("
+SUBBRACE.3: "_{"
+THREEJ.3: "3j("
+SIXJ.3: "6j{"
+NINEJ.3: "9j{"
+TREE.5: /\([A-Za-z0-9_ ,()]*[A-Za-z0-9_][ ,]+[A-Za-z(][A-Za-z0-9_ ,()]*\)[ ]*[A-Za-z][A-Za-z0-9_]*/
+LABELSUFFIX.3: /_[A-Za-z][A-Za-z0-9_]*/
+LABELLED.3: /(?:[0-9]+(?:\/[0-9]+)?|[A-Za-z][A-Za-z0-9]*(?:_[0-9][A-Za-z0-9]*)*)_[A-Za-z][A-Za-z0-9_]*/
 %ignore /[ \t\r\n]+/
 """
 
@@ -218,24 +457,44 @@ def is_valid_name(name):
     Examples
     ========
 
+    A name is ASCII letters, digits and ``_``, or allow-listed Greek letters
+    (:data:`GREEK_LETTERS`), digits and ``_``: one script per name.  It does not begin
+    with a digit or ``__``, is not ``I`` or ``pi``, and does not read like a reserved name
+    (a function or constructor of the grammar, ``I``, ``pi``) through a Greek look-alike
+    (:data:`LOOKALIKES`): ``"ρι"`` reads like ``pi``.
+
     >>> from amalgebra.parsing import is_valid_name
     >>> is_valid_name("j1"), is_valid_name("α"), is_valid_name("__class__"), is_valid_name("I")
     (True, True, False, False)
+    >>> is_valid_name("θ_2"), is_valid_name("ρi"), is_valid_name("ρι"), is_valid_name("οmega")
+    (True, False, False, False)
     """
     return (isinstance(name, str) and bool(_NAME_RE.match(name)) and not name.startswith("__")
-            and name not in _RESERVED and len(name) <= ParseLimits.max_name_length)
+            and name not in _RESERVED and len(name) <= ParseLimits.max_name_length
+            and _name_problem(name) is None)
+
+
+@lru_cache(maxsize=1)
+def _lark():
+    """The lark module, imported once: the parser, its trees, tokens and exceptions and the
+    transformer must come from one module object even if ``sys.modules`` is later purged
+    (pytest's in-process runs restore a snapshot of it)."""
+    import lark
+    import lark.exceptions
+
+    return lark
 
 
 @lru_cache(maxsize=1)
 def _parser():
-    from lark import Lark
+    Lark = _lark().Lark
 
     return Lark(_GRAMMAR, parser="lalr", start="start")
 
 
 def _depth(tree):
     """Nesting depth of a lark tree, computed without recursion."""
-    from lark import Tree
+    Tree = _lark().Tree
 
     deepest, stack = 0, [(tree, 1)]
     while stack:
@@ -245,9 +504,33 @@ def _depth(tree):
     return deepest
 
 
+def _power_weights(expr):
+    """``(largest effective exponent, largest effective bit size)`` inside ``expr``.
+
+    A power's numeric exponent scales everything under its base: the exponent weight is the
+    largest product of nested numeric exponents (at least 1), the bit weight the largest bit
+    length of a number times the exponents above it (exponents themselves are not counted).
+    """
+    from sympy import Rational
+
+    exp_weight, bit_weight = 1, 1
+    stack = [(expr, 1)]
+    while stack:
+        node, scale = stack.pop()
+        if isinstance(node, Rational):
+            bit_weight = max(bit_weight, max(abs(node.p).bit_length(), node.q.bit_length()) * scale)
+        elif node.is_Pow and isinstance(node.exp, Rational):
+            inner = scale * abs(node.exp)
+            exp_weight = max(exp_weight, inner)
+            stack.append((node.base, inner))
+        else:
+            stack.extend((arg, scale) for arg in node.args)
+    return exp_weight, bit_weight
+
+
 def _transformer(limits, names):
     # sympy is imported here, not at module import, to keep ``amalgebra.cli`` start-up light.
-    from lark import Transformer
+    Transformer = _lark().Transformer
     from sympy import (
         Add, I, Integer, KroneckerDelta, Mul, Pow, Rational, Symbol, cos, cosh, exp, pi, sin,
         sinh, sqrt,
@@ -257,10 +540,13 @@ def _transformer(limits, names):
                  "KroneckerDelta": KroneckerDelta}
 
     def bounded(value):
-        if isinstance(value, Rational) and max(abs(value.p).bit_length(),
-                                               value.q.bit_length()) > limits.max_bits:
-            raise ParseError(f"number of {max(abs(value.p).bit_length(), value.q.bit_length())} "
-                             f"bits must have at most max_bits={limits.max_bits} bits")
+        # the node itself and its direct arguments: SymPy's automatic evaluation puts the
+        # numbers it builds there (2^499*sqrt(2) holds the Integer 2^499 as an argument)
+        for number in (value, *getattr(value, "args", ())):
+            if isinstance(number, Rational) and max(abs(number.p).bit_length(),
+                                                    number.q.bit_length()) > limits.max_bits:
+                raise ParseError(f"number of {max(abs(number.p).bit_length(), number.q.bit_length())} "
+                                 f"bits must have at most max_bits={limits.max_bits} bits")
         return value
 
     class Build(Transformer):
@@ -270,6 +556,14 @@ def _transformer(limits, names):
                 raise ParseError(f"integer literal of {len(digits)} digits must have at most "
                                  f"max_digits={limits.max_digits} digits")
             return Integer(int(digits))
+
+        def decimal(self, children):
+            # An exact decimal (never a float): 72.222 is 72222/1000.
+            whole, fraction = str(children[0]).split(".")
+            if len(whole) + len(fraction) > limits.max_digits:
+                raise ParseError(f"decimal literal of {len(whole) + len(fraction)} digits must "
+                                 f"have at most max_digits={limits.max_digits} digits")
+            return Rational(int(whole + fraction), 10 ** len(fraction))
 
         def name(self, children):
             text = str(children[0])
@@ -290,6 +584,8 @@ def _transformer(limits, names):
         def call(self, children):
             head, args = str(children[0]), children[1:]
             if head in functions:
+                if any(isinstance(a, (_Label, tuple)) for a in args):
+                    raise ParseError(f"the arguments of {head} must be expressions")
                 if len(args) != FUNCTIONS[head]:
                     raise ParseError(f"{head} takes {FUNCTIONS[head]} argument(s), "
                                      f"got {len(args)}")
@@ -302,10 +598,20 @@ def _transformer(limits, names):
                 built = []
                 for kind, arg in zip(spec.kinds, args, strict=True):
                     if kind == "label":
+                        if isinstance(arg, _Label):
+                            built.append(arg.name)
+                            continue
                         if not isinstance(arg, Symbol):
-                            raise ParseError(f"argument {arg} of {head} must be a bare label name")
+                            raise ParseError(f"argument {_piece(arg)} of {head} must be a bare label name")
                         built.append(arg.name)
+                    elif kind == "tuple":
+                        if not isinstance(arg, tuple):
+                            raise ParseError(f"argument {_piece(arg)} of {head} must be a "
+                                             "parenthesised list (a, b, ...)")
+                        built.append(arg)
                     else:
+                        if isinstance(arg, (_Label, tuple)):
+                            raise ParseError(f"argument {_piece(arg)} of {head} must be an expression")
                         built.append(arg)
                 try:
                     return spec.build(built)
@@ -314,6 +620,141 @@ def _transformer(limits, names):
                                      f"imported: {exc}") from exc
             raise ParseError(f"function name={head!r} must be one of "
                              f"{sorted(FUNCTIONS) + sorted(CONSTRUCTORS)}")
+
+        # -- the library's printed forms ------------------------------------------------
+
+        def qlabel(self, c):
+            return _Label(str(c[0])[1:-1])
+
+        def tuple(self, c):
+            return tuple(c)
+
+        def component(self, c):
+            label, part = str(c[0]), str(c[1])
+            if part not in _COMPONENTS:
+                raise ParseError(f"component={part!r} must be one of {sorted(_COMPONENTS)}")
+            module, factory = _COMPONENTS[part]
+            return getattr(getattr(importlib.import_module(module), factory)(label), part)
+
+        def vector_component(self, c):
+            name, label, axis = (str(t) for t in c)
+            if axis not in ("x", "y", "z"):
+                raise ParseError(f"axis={axis!r} of a vector operator must be x, y or z")
+            return getattr(_printed_class("vector")(name, label), axis)
+
+        def _tensor(self, head, rank, label):
+            if not isinstance(head, Symbol):
+                raise ParseError("a spherical tensor must be written name^(k)[label]")
+            return _printed_class("tensor")(head.name, rank, label=label)
+
+        def tensor(self, c):
+            head, _pow, rank, label = c
+            return self._tensor(head, rank, str(label))
+
+        def tensor_component(self, c):
+            head, _pow, rank, label, _sub, q = c
+            return self._tensor(head, rank, str(label))[q]
+
+        def unlabelled_component(self, c):
+            raise ParseError("a tensor component must name the label of its tensor: "
+                             "T^(k)[label]_(q) (the printed T^(k)_(q) does not say it)")
+
+        def rotation(self, c):
+            head, _pow, j, _sub, mp, m, alpha, beta, gamma = c
+            if head != Symbol("D"):
+                raise ParseError("a rotation matrix element must be written D^{j}_{m',m}(alpha, beta, gamma)")
+            return _printed_class("rotation")(j, mp, m, alpha, beta, gamma)
+
+        def ket(self, c):
+            return _printed_class("ket")(c[0], c[1], str(c[2])[2:])
+
+        def bra(self, c):
+            return _printed_class("bra")(c[0], c[1], str(c[2])[2:])
+
+        def kets(self, c):
+            return c[0] if len(c) == 1 else _printed_class("kets")(*c)
+
+        def bras(self, c):
+            return c[0] if len(c) == 1 else _printed_class("bras")(*c)
+
+        def part(self, c):
+            if len(c) == 1:
+                return _labelled(c[0], limits)
+            return c[0], str(c[1])[1:]
+
+        def inner_pair(self, c):
+            return [c[0], c[1]], []
+
+        def inner_chain(self, c):
+            (parts, intermediates), value, last = c
+            return parts + [last], intermediates + [value]
+
+        def _coupled(self, rule, c):
+            from sympy import Tuple
+            from sympy.core.symbol import Str
+
+            (parts, intermediates), J, M = c
+            return _printed_class(rule)(Tuple(*[v for v, _ in parts]), Tuple(*intermediates), J, M,
+                                        Tuple(*[Str(label) for _, label in parts]))
+
+        def coupled_ket(self, c):
+            return self._coupled("coupled_ket", c)
+
+        def coupled_bra(self, c):
+            return self._coupled("coupled_bra", c)
+
+        def _fock(self, rule, c):
+            from sympy import Tuple
+            from sympy.core.symbol import Str
+
+            cut = next(i for i, t in enumerate(c) if getattr(t, "type", None) in ("FOCKKET", "FOCKBRA"))
+            occupations, modes = c[:cut], [str(t) for t in c[cut + 1:]]
+            if len(modes) != len(occupations):
+                raise ParseError(f"{len(occupations)} occupation(s) must come with as many modes, "
+                                 f"got {len(modes)}")
+            return _printed_class(rule)(Tuple(*[Str(mode) for mode in modes]), Tuple(*occupations))
+
+        def fock_ket(self, c):
+            return self._fock("fock_ket", c)
+
+        def fock_bra(self, c):
+            return self._fock("fock_bra", c)
+
+        def reduced(self, c):
+            jp, _bar, name, _pow, k, _bar2, j, *end = c
+            convention = str(end[0])[2:] if end else "edmonds"
+            return _printed_class("reduced")(str(name), k, jp, j, convention)
+
+        def cg_bracket(self, c):
+            return _printed_class("cg_bracket")(*c)
+
+        def threej(self, c):
+            return _printed_class("threej")(*c[1:])
+
+        def sixj(self, c):
+            return _printed_class("sixj")(*c[1:])
+
+        def ninej(self, c):
+            return _printed_class("ninej")(*c[1:])
+
+        def assignment(self, c):
+            return str(c[0]), c[1]
+
+        def tree(self, c):
+            values = dict(c[1:])
+            if len(values) != len(c) - 1:
+                raise ParseError("each momentum of a coupling tree must be given one value")
+            return _printed_class("tree")(str(c[0]), values)
+
+        def coupled_tensor(self, c):
+            first, cross, second, _pow, rank = c
+            if str(cross) != "x":
+                raise ParseError("a coupled tensor operator must be written [A x B]^(K)")
+            for part in (first, second):
+                if isinstance(part, Symbol) or part.is_Pow:
+                    raise ParseError("the parts of a coupled tensor operator must name their labels: "
+                                     "[T^(k)[J] x U^(q)[S]]^(K) (the printed [T^(k) x U^(q)]^(K) does not say them)")
+            return _printed_class("coupled_tensor")(first, second, rank)
 
         def sum(self, c):
             # One flat Add (and one flat Mul below), as SymPy builds them: binary
@@ -346,16 +787,51 @@ def _transformer(limits, names):
                 if abs(exponent) > limits.max_exponent:
                     raise ParseError(f"exponent={exponent} must have absolute value <= "
                                      f"{limits.max_exponent}")
-                if base.is_Rational:
-                    size = max(abs(base.p).bit_length(), base.q.bit_length()) * abs(exponent)
-                    if size > limits.max_bits:
-                        raise ParseError(f"power {base}^{exponent} must have at most "
-                                         f"max_bits={limits.max_bits} bits")
+                # Before SymPy evaluates anything: exponents of powers inside the base multiply
+                # ((a^1000)^1000 is a^1000000), and numbers inside it grow by the exponent
+                # ((sqrt(2)^999)^999 is 2^(999*999/2)).
+                exp_weight, bit_weight = _power_weights(base)
+                if abs(exponent) * exp_weight > limits.max_exponent:
+                    raise ParseError(f"exponent={exponent} times the exponent {exp_weight} inside its base "
+                                     f"must have absolute value <= {limits.max_exponent}")
+                if abs(exponent) * bit_weight > limits.max_bits:
+                    raise ParseError(f"power with exponent={exponent} of a base holding a number of "
+                                     f"{bit_weight} bits must have at most max_bits={limits.max_bits} bits")
                 if base == 0 and exponent < 0:
                     raise ParseError("division by zero")
             return bounded(Pow(base, exponent))
 
     return Build()
+
+
+def _labelled(token, limits):
+    """``(value, label)`` of a labelled momentum ``1_L``, ``3/2_S`` or ``j_1_A`` of a coupled ket."""
+    from sympy import Integer, Rational, Symbol
+
+    text = str(token)
+    match = re.fullmatch(r"([0-9]+(?:/[0-9]+)?|[A-Za-z][A-Za-z0-9]*(?:_[0-9][A-Za-z0-9]*)*)_(.+)", text)
+    value, label = match.group(1), match.group(2)
+    if value[0].isdigit():
+        if len(value) > limits.max_digits:
+            raise ParseError(f"number of {len(value)} characters in a coupled ket must have at most "
+                             f"max_digits={limits.max_digits} digits")
+        p, _, q = value.partition("/")
+        number = Rational(int(p), int(q)) if q else Integer(int(p))
+        if q and int(q) == 0:
+            raise ParseError("division by zero")
+        return number, label
+    if value in _RESERVED:
+        raise ParseError(f"name={value!r} is a constant, not a momentum")
+    return Symbol(value), label
+
+
+def _piece(arg):
+    """How an argument is named in a message: its kind, never the text it came from."""
+    if isinstance(arg, _Label):
+        return "(a quoted label)"
+    if isinstance(arg, tuple):
+        return "(a parenthesised list)"
+    return "(an expression)"
 
 
 def parse(text, *, names=None, limits=None):
@@ -378,7 +854,11 @@ def parse(text, *, names=None, limits=None):
     >>> parse("().__class__")
     Traceback (most recent call last):
     ...
-    amalgebra.errors.ParseError: text='().__class__' is not in the grammar: unexpected ')' at column 2
+    amalgebra.errors.ParseError: text is not in the grammar: unexpected character U+0029 RIGHT PARENTHESIS at line 1, column 2
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> J = AngularMomentum("J")
+    >>> parse("J.x*J.y") == J.x*J.y != J.y*J.x     # the library's printed forms read back
+    True
 
     Parameters
     ==========
@@ -402,7 +882,9 @@ def parse(text, *, names=None, limits=None):
 
     to_text : the inverse printer.
     """
-    from lark.exceptions import UnexpectedCharacters, UnexpectedEOF, UnexpectedInput, VisitError
+    errors = _lark().exceptions
+    UnexpectedCharacters, UnexpectedEOF = errors.UnexpectedCharacters, errors.UnexpectedEOF
+    UnexpectedInput, VisitError = errors.UnexpectedInput, errors.VisitError
 
     limits = ParseLimits() if limits is None else limits
     if not isinstance(text, str):
@@ -415,37 +897,75 @@ def parse(text, *, names=None, limits=None):
     # A cheap bracket scan first, so that absurd nesting never reaches the parser.
     level = 0
     for ch in text:
-        level += (ch == "(") - (ch == ")")
+        level += (ch in "([{") - (ch in ")]}")
         if level > limits.max_depth:
             raise ParseError(f"nesting depth must be at most max_depth={limits.max_depth}")
+    # Messages say where (line and column) and what kind of piece, never the text itself:
+    # stored results and command lines may hold anything.
     try:
         tree = _parser().parse(text)
     except UnexpectedCharacters as exc:
-        raise ParseError(f"text={_short(text)!r} is not in the grammar: unexpected "
-                         f"character {text[exc.pos_in_stream]!r} at column {exc.column}") from None
+        ch = text[exc.pos_in_stream]
+        raise ParseError(f"text is not in the grammar: unexpected character {_spelled(ch)} "
+                         f"at line {exc.line}, column {exc.column}") from None
     except UnexpectedEOF:
-        raise ParseError(f"text={_short(text)!r} is not in the grammar: it ends too early") from None
+        raise ParseError("text is not in the grammar: it ends too early") from None
     except UnexpectedInput as exc:
         token = getattr(exc, "token", None)
         if getattr(token, "type", None) == "$END":
-            raise ParseError(f"text={_short(text)!r} is not in the grammar: it ends too "
-                             "early") from None
-        raise ParseError(f"text={_short(text)!r} is not in the grammar: unexpected "
-                         f"{str(token)!r} at column {exc.column}") from None
+            raise ParseError("text is not in the grammar: it ends too early") from None
+        raise ParseError(f"text is not in the grammar: unexpected {_token_kind(token)} "
+                         f"at line {exc.line}, column {exc.column}") from None
     if _depth(tree) > 3 * limits.max_depth:
         raise ParseError(f"nesting depth must be at most max_depth={limits.max_depth}")
+    _check_names(tree)
     try:
         return _transformer(limits, None if names is None else frozenset(names)).transform(tree)
     except VisitError as exc:
         inner = exc.orig_exc
         if isinstance(inner, ParseError):
             raise inner from None
-        raise ParseError(f"text={_short(text)!r} cannot be built: "
-                         f"{type(inner).__name__}: {inner}") from None
+        raise ParseError(f"text cannot be built: {type(inner).__name__}: {inner}") from None
 
 
-def _short(text, width=60):
-    return text if len(text) <= width else text[: width - 3] + "..."
+def _check_names(tree):
+    """The confusable rule on every name of the text, before anything is built.
+
+    Each name is single-script and does not read like a reserved name; no two distinct
+    names of one text share a skeleton (``o`` beside Greek ``ο``, ``p`` beside ``ρ``).
+    """
+    Token = _lark().Token
+
+    tokens = list(tree.scan_values(lambda v: isinstance(v, Token) and v.type == "NAME"))
+    for token in tokens:
+        if token.startswith("__"):  # before anything is looked up by that name
+            raise ParseError(f"text is not in the grammar: a name must not begin with '__', at line "
+                             f"{token.line}, column {token.column}")
+    words = [str(t) for t in tokens]
+    for word in dict.fromkeys(words):
+        if word.isascii():
+            continue  # ASCII names are single-script and their own skeleton
+        problem = _name_problem(word)
+        if problem is not None:
+            raise ParseError(problem)
+    pair = _confusable_pair(words)
+    if pair is not None:
+        raise ParseError(_confusable_message(pair))
+
+
+#: Terminals whose text comes from the input: named by kind in messages, never quoted.
+_TOKEN_KINDS = {"NAME": "name", "INT": "integer", "DECIMAL": "decimal", "LABELLED": "labelled momentum",
+                "QLABEL": "quoted label", "KETEND": "ket label '>_...'", "BRAEND": "bra label '|_...'"}
+
+
+def _token_kind(token):
+    """A token in a message: punctuation of the grammar quoted, input text only by its kind."""
+    kind = getattr(token, "type", None)
+    if kind in _TOKEN_KINDS:
+        return _TOKEN_KINDS[kind]
+    if token is None:
+        return "input"
+    return f"character {_spelled(str(token))}" if len(str(token)) == 1 else repr(str(token))
 
 
 # ----------------------------------------------------------------------------- printing
@@ -453,7 +973,7 @@ def _short(text, width=60):
 _ADD, _MUL, _NEG, _POW, _ATOM = 1, 2, 2, 3, 4
 
 
-def to_text(expr):
+def to_text(expr, *, decimals=False):
     """Write ``expr`` in exactly the grammar that :func:`parse` reads.
 
     Explanation
@@ -481,13 +1001,58 @@ def to_text(expr):
     ==========
 
     expr : sympy.Expr
+    decimals : bool
+        Write a rational whose denominator is ``2^a 5^b`` (at least 100) as an exact
+        decimal when that is not longer than ``p/q`` (``854335326363/125000000`` as
+        ``6834.682610904``); :func:`parse` reads it back as the same rational.  The
+        stored-results writer uses it.
 
     See Also
     ========
 
     parse
     """
-    return _write(expr)[0]
+    token = _DECIMALS.set(bool(decimals))
+    try:
+        text = _write(expr)[0]
+    finally:
+        _DECIMALS.reset(token)
+    _check_written_names(expr)
+    return text
+
+
+def _check_written_names(expr):
+    """Refuse to write text that :func:`parse` would refuse for two names reading alike."""
+    from sympy import Basic, Symbol
+    from sympy.core.symbol import Str
+
+    if not isinstance(expr, Basic):
+        return
+    names = [a.name for a in expr.atoms(Symbol, Str)]
+    if all(name.isascii() for name in names):
+        return
+    pair = _confusable_pair(names)
+    if pair is not None:
+        raise ParseError(_confusable_message(pair, " of expr"))
+
+
+_DECIMALS = contextvars.ContextVar("amalgebra_to_text_decimals", default=False)
+
+
+def _decimal_text(p, q):
+    """``p/q`` (q > 1) as an exact decimal string when q = 2^a 5^b >= 100 and it is not
+    longer than the fraction; otherwise None."""
+    twos = (q & -q).bit_length() - 1
+    rest, fives = q >> twos, 0
+    while rest % 5 == 0:
+        rest, fives = rest // 5, fives + 1
+    if rest != 1 or q < 100:
+        return None
+    places = max(twos, fives)
+    scaled = abs(p) * 10 ** places // q
+    digits = str(scaled).rjust(places + 1, "0")
+    text = f"{digits[:-places]}.{digits[-places:]}"
+    return text if len(text) <= len(f"{abs(p)}/{q}") else None
 
 
 def _wrap(piece, minimum):
@@ -511,7 +1076,9 @@ def _write(e):
     if e.is_Integer:
         return (str(e.p), _NEG) if e.p < 0 else (str(e.p), _ATOM)
     if e.is_Rational:
-        text = f"{abs(e.p)}/{e.q}"
+        text = (_DECIMALS.get() and _decimal_text(e.p, e.q)) or f"{abs(e.p)}/{e.q}"
+        if "." in text:
+            return (f"-{text}", _NEG) if e.p < 0 else (text, _ATOM)
         return (f"-{text}", _NEG) if e.p < 0 else (text, _MUL)
     if e == I:
         return "I", _ATOM
@@ -522,7 +1089,8 @@ def _write(e):
     if isinstance(e, Symbol):
         if e.is_commutative is not True or type(e) is not Symbol or not is_valid_name(e.name):
             raise ParseError(f"symbol name={e.name!r} must be a plain commutative symbol with a "
-                             "grammar name ([A-Za-z_][A-Za-z0-9_]*, not I or pi, not __...)")
+                             "grammar name ([A-Za-z_][A-Za-z0-9_]* or Greek letters, digits and _, "
+                             "one script; not I or pi or a look-alike of them; not __...)")
         return e.name, _ATOM
     if isinstance(e, Add):
         terms = e.as_ordered_terms()
@@ -552,7 +1120,9 @@ def _write(e):
                       (KroneckerDelta, "KroneckerDelta")):
         if isinstance(e, cls):
             return f"{name}({', '.join(_write(a)[0] for a in e.args)})", _ATOM
-    text = _write_constructed(e)
+    text = _write_printed(e)
+    if text is None:
+        text = _write_constructed(e)
     if text is not None:
         return text, _ATOM
     raise ParseError(f"expr={e} contains {type(e).__name__}, which the amalgebra grammar "
@@ -627,3 +1197,225 @@ def _write_constructed(e):
                 except (ImportError, AttributeError, TypeError, ValueError):
                     continue
     return None
+
+
+def _text(e):
+    return _write(e)[0]
+
+
+def _label_text(label):
+    """A label as the grammar reads it after ``>_``, ``.``, ``[``: an ASCII identifier."""
+    if not re.fullmatch(r"[A-Za-z][A-Za-z0-9_]*", label):
+        raise ParseError(f"label={label!r} must be an ASCII identifier starting with a letter")
+    return label
+
+
+def _name_text(name):
+    if not re.fullmatch(r"[A-Za-z][A-Za-z0-9_]*", name) or not is_valid_name(name):
+        raise ParseError(f"name={name!r} must be a grammar name to be written")
+    return name
+
+
+def _labelled_text(value, label):
+    """``value_label`` inside a coupled ket: the grammar's labelled momentum, or a refusal."""
+    from sympy import Integer, Rational, Symbol
+
+    if isinstance(value, Integer) and value >= 0:
+        text = str(value.p)
+    elif isinstance(value, Rational) and value > 0:
+        text = f"{value.p}/{value.q}"
+    elif (type(value) is Symbol and value.name not in _RESERVED
+          and re.fullmatch(r"[A-Za-z][A-Za-z0-9]*(?:_[0-9][A-Za-z0-9]*)*", value.name)):
+        text = value.name
+    else:
+        text = f"({_text(value)})"  # read back by the rule "(" sum ")" LABELSUFFIX
+    return f"{text}_{_label_text(label)}"
+
+
+def _write_printed(e):
+    """The library's own printed form of ``e`` (its ``str``, made complete), or None.
+
+    Where ``str`` leaves out something that the object holds, the text adds it in the
+    grammar's own way: a vector component names its operator's label (``r[L].z``, printed
+    ``r.z``), a tensor component its tensor's label (``T^(2)[J]_(1)``, printed ``T^(2)_(1)``).
+    Objects whose defaults the text cannot state (a non-Hermitian vector operator, a tensor
+    of another kind) are refused by the rebuild check.
+    """
+    name = type(e).__name__
+    writer = _PRINTED_WRITERS.get(name)
+    if writer is None or not type(e).__module__.startswith("amalgebra."):
+        return None
+    text = writer(e)
+    return text
+
+
+def _checked(e, text, rebuilt):
+    if rebuilt != e:
+        raise ParseError(f"expr={type(e).__name__} has settings its text form cannot state")
+    return text
+
+
+def _w_component(e):
+    return f"{_label_text(e.label)}.{e.component}"
+
+
+def _w_boson(e):
+    return f"{_label_text(e.label)}.{e.kind}"
+
+
+def _w_angular_momentum(e):
+    return f"AngularMomentum('{_label_text(e.label)}')"
+
+
+def _w_boson_mode(e):
+    return f"BosonMode('{_label_text(e.label)}')"
+
+
+def _w_vector(e):
+    text = f"VectorOperator('{_label_text(e.name)}', '{_label_text(e.label)}')"
+    return _checked(e, text, type(e)(e.name, e.label))
+
+
+def _w_vector_component(e):
+    v = e.vector
+    _w_vector(v)
+    return f"{_name_text(v.name)}[{_label_text(v.label)}].{e.axis}"
+
+
+def _w_tensor(e):
+    text = f"{_name_text(e.name)}^({_text(e.rank)})[{_label_text(e.label)}]"
+    return _checked(e, text, type(e)(e.name, e.rank, label=e.label))
+
+
+def _w_tensor_component(e):
+    tensor, q = e.args
+    return f"{_w_tensor(tensor)}_({_text(q)})"
+
+
+def _w_tensor_components(e):
+    return f"TensorComponents({_text(e.rank)}, ({', '.join(_text(c) for c in e.components)}))"
+
+
+def _w_state(e):
+    return f"{_text(e.j)}, {_text(e.m)}"
+
+
+def _w_ket(e):
+    return f"|{_w_state(e)}>_{_label_text(e.label)}"
+
+
+def _w_bra(e):
+    return f"<{_w_state(e)}|_{_label_text(e.label)}"
+
+
+def _w_product(e):
+    return "".join(_write_printed(part) or _text(part) for part in e.args)
+
+
+def _w_coupled_body(e):
+    labels, js = e.labels, e.js
+    text = f"{_labelled_text(js[0], labels[0])} {_labelled_text(js[1], labels[1])}"
+    for k in range(2, len(js)):
+        text = f"({text}){_text(e.intermediates[k - 2])} {_labelled_text(js[k], labels[k])}"
+    return f"({text}){_text(e.J)}, {_text(e.M)}"
+
+
+def _w_coupled_ket(e):
+    return f"|{_w_coupled_body(e)}>"
+
+
+def _w_coupled_bra(e):
+    return f"<{_w_coupled_body(e)}|"
+
+
+def _w_fock(e, left, right):
+    body = ", ".join(_text(n) for n in e.occupations)
+    return f"{left}{body}{right}_({','.join(_label_text(mode) for mode in e.modes)})"
+
+
+def _w_reduced(e):
+    _, k, jp, j, _c = e.args
+    suffix = "" if e.convention == "edmonds" else f"_{_label_text(e.convention)}"
+    return f"<{_text(jp)}||{_name_text(e.name)}^({_text(k)})||{_text(j)}>{suffix}"
+
+
+def _w_rotation(e):
+    j, mp, m = (_text(a) for a in e.args[:3])
+    return f"D^{{{j}}}_{{{mp},{m}}}({', '.join(_text(a) for a in e.angles)})"
+
+
+def _w_cg(e):
+    j1, m1, j2, m2, J, M = (_text(a) for a in e.args)
+    return f"<{j1}, {m1}; {j2}, {m2}|{J}, {M}>"
+
+
+def _w_array(prefix, left, right):
+    def write(e):
+        rows = [e.args[i:i + 3] for i in range(0, len(e.args), 3)]
+        body = "; ".join(", ".join(_text(a) for a in row) for row in rows)
+        return f"{prefix}{left}{body}{right}"
+    return write
+
+
+def _w_triangle(e):
+    return f"TriangleDelta({', '.join(_text(a) for a in e.args)})"
+
+
+#: class name (of a class defined in amalgebra) -> writer of its printed form
+_PRINTED_WRITERS = {
+    "AngularMomentumComponent": _w_component,
+    "AngularMomentum": _w_angular_momentum,
+    "BosonOperator": _w_boson,
+    "BosonMode": _w_boson_mode,
+    "VectorOperator": _w_vector,
+    "VectorComponent": _w_vector_component,
+    "SphericalTensor": _w_tensor,
+    "TensorComponent": _w_tensor_component,
+    "TensorComponents": _w_tensor_components,
+    "Ket": _w_ket,
+    "Bra": _w_bra,
+    "ProductKet": _w_product,
+    "ProductBra": _w_product,
+    "CoupledKet": _w_coupled_ket,
+    "CoupledBra": _w_coupled_bra,
+    "FockKet": lambda e: _w_fock(e, "|", ">"),
+    "FockBra": lambda e: _w_fock(e, "<", "|"),
+    "ReducedMatrixElement": _w_reduced,
+    "RotationElement": _w_rotation,
+    "CouplingBracket": _w_cg,
+    "Coupling3j": _w_array("3j", "(", ")"),
+    "Coupling6j": _w_array("6j", "{", "}"),
+    "Coupling9j": _w_array("9j", "{", "}"),
+    "TriangleDelta": _w_triangle,
+    "CouplingTree": lambda e: _w_tree(e),
+    "TreeKet": lambda e: f"TreeKet({_w_tree(e.tree)}, {_text(e.M)})",
+    "TreeBra": lambda e: f"TreeBra({_w_tree(e.tree)}, {_text(e.M)})",
+    "CoupledTensorOperator": lambda e: _w_coupled_tensor(e),
+}
+
+
+def _w_tree(e):
+    """``((l s) j, I) F [l=2, s=1/2]``: the tree's bracket text and the values that are not its names."""
+    from sympy import Symbol
+
+    def walk(node):
+        if isinstance(node, str):
+            return _label_text(node)
+        left, right = walk(node[0]), walk(node[1])
+        sep = ", " if not isinstance(node[0], str) or not isinstance(node[1], str) else " "
+        return f"({left}{sep}{right}) {_label_text(node[2])}"
+
+    text = walk(e.structure)
+    given = [(name, value) for name, value in e.values.items() if value != Symbol(name)]
+    if given:
+        text += " [" + ", ".join(f"{name}={_text(value)}" for name, value in given) + "]"
+    return text
+
+
+def _w_coupled_tensor(e):
+    first, second, rank = e.args
+    return f"[{_w_part(first)} x {_w_part(second)}]^({_text(rank)})"
+
+
+def _w_part(part):
+    return _write_printed(part) or _text(part)

@@ -9,7 +9,9 @@ through here, so the rules are the same everywhere:
   or ``sympify``);
 * floats only when they are exactly an integer or a half-integer (``1.5`` yes,
   ``0.3`` no);
-* ``bool`` is refused (it is an ``int`` in Python, but never a quantum number).
+* ``bool`` is refused (it is an ``int`` in Python, but never a quantum number);
+* text holds ASCII digits only: other scripts' digits (``"\u0663"``, Arabic-Indic three,
+  which Python's ``int`` would read as 3), full-width digits and non-ASCII spaces are refused.
 
 Errors (see :mod:`amalgebra.errors`): a value that is not a multiple of 1/2 or
 a negative ``j`` raises :class:`~amalgebra.errors.QuantumNumberError`; an ``m``
@@ -55,8 +57,11 @@ __all__ = [
     "triangle_doubled",
 ]
 
-# A plain exact number: optional sign, digits, optionally "/digits" or ".digits".
-_NUMBER_TEXT = re.compile(r"^\s*([+-]?)(\d{1,60})(?:/(\d{1,60})|\.(\d{1,60}))?\s*$")
+# A plain exact number: optional sign, digits, optionally "/digits" or ".digits".  ASCII only
+# (re.ASCII): Python's \d and int() also read other scripts' digits ("\u0663" is 3), and a
+# quantum number that reads differently from what it looks like is refused, not guessed.
+_NUMBER_TEXT = re.compile(r"\A\s*([+-]?)([0-9]{1,60})(?:/([0-9]{1,60})|\.([0-9]{1,60}))?\s*\Z",
+                          re.ASCII)
 
 
 def _fraction_from_text(text, name):
@@ -131,6 +136,9 @@ def doubled(value, name="j", *, nonnegative=False):
 
 def half_integer(value, name="j", *, nonnegative=False):
     """Return a numeric quantum number as an exact SymPy ``Integer``/``Rational``.
+
+    Examples
+    ========
 
     >>> half_integer(0.5, "s")
     1/2
@@ -217,6 +225,9 @@ def triangle_doubled(ta, tb, tc):
 
 def triangle(a, b, c):
     """True when ``a``, ``b``, ``c`` can couple: the triangle rule with integer perimeter.
+
+    Examples
+    ========
 
     >>> triangle(1, 1, 2), triangle(1, 1, 3), triangle("1/2", 1, 1)
     (True, False, False)

@@ -1,4 +1,4 @@
-"""Explicit matrices and identity verification (amalgebra.numeric)."""
+"""Explicit matrices and identity verification (amalgebra.matrices.explicit)."""
 
 import numpy as np
 import pytest
@@ -9,7 +9,7 @@ from sympy import I, Matrix, Rational, sqrt, symbols
 
 from amalgebra.algebra import AngularMomentum
 from amalgebra.errors import ConventionError, NotNumericError, OperatorError, QuantumNumberError
-from amalgebra.numeric import IdentityCheck, assert_identity, to_matrix, verify_identity
+from amalgebra.matrices.explicit import IdentityCheck, assert_identity, to_matrix, verify_identity
 from amalgebra.testing.reference import evaluate
 from amalgebra.testing.strategies import operator_polynomials
 
@@ -63,7 +63,7 @@ def test_extra_label_gives_identity_factor():
     assert np.allclose(m, np.kron(np.diag([0.5, -0.5]), np.eye(3)))
 
 
-@settings(max_examples=20, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(("J", "S"), 3, 3), st.sampled_from([0.5, 1, 1.5]), st.sampled_from([0.5, 1]))
 def test_float_matches_numpy_property(expr, jj, js):
     assert np.allclose(to_matrix(expr, {"J": jj, "S": js}, kind="float"),

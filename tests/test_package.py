@@ -18,7 +18,9 @@ from sympy import Basic, Symbol, symbols
 import amalgebra
 
 # Modules that are not library code proper: the command, the pytest plugin, test helpers.
-_SKIP_MODULES = ("amalgebra.cli", "amalgebra.pytest_plugin", "amalgebra.testing")
+_SKIP_MODULES = ("amalgebra.cli", "amalgebra.pytest_plugin", "amalgebra.testing",
+                 # deprecated shims of moved modules (they only re-export and warn)
+                 "amalgebra.rotations_series", "amalgebra.rotations_actions", "amalgebra.harmonics", "amalgebra.numeric", "amalgebra.multiplet_matrices", "amalgebra.reduced")
 
 
 def _library_modules():
@@ -39,9 +41,12 @@ def _basic_classes():
 def _samples():
     from amalgebra.algebra import AngularMomentum
     from amalgebra.bosons import BosonMode, fock_ket
-    from amalgebra.coupling.symbols import ClebschGordanSymbol, NineJSymbol, SixJSymbol, ThreeJSymbol
-    from amalgebra.reduced import ReducedMatrixElement
-    from amalgebra.rotations import RotationElement
+    from amalgebra.coupling.symbols import Coupling3j, Coupling6j, Coupling9j, CouplingBracket
+    from amalgebra.coupling.trees import coupling_tree
+    from amalgebra.states.tree_kets import tree_ket
+    from amalgebra.tensors.tree_elements import CoupledTensorOperator
+    from amalgebra.tensors.wigner_eckart import ReducedMatrixElement
+    from amalgebra.rotations.wigner import RotationElement
     from amalgebra.states import coupled_ket, ket, product_ket
     from amalgebra.tensors import SphericalTensor, VectorOperator, quadrupole_tensor
 
@@ -58,10 +63,15 @@ def _samples():
         product_ket(ket(1, 0, "L"), ket("1/2", "1/2", "S")).adjoint(),
         coupled, coupled.adjoint(),
         ReducedMatrixElement("T", 2, Symbol("jp"), j),
+        __import__("amalgebra.racah", fromlist=["TriangleDelta"]).TriangleDelta(j, 1, Symbol("jp")),
         RotationElement(1, 1, 0, alpha, beta, gamma),
         T, T[1], quadrupole_tensor(J), V, V.z,
-        ClebschGordanSymbol(j, m, 1, 0, j, m), ThreeJSymbol(1, 1, 0, 0, 0, 0),
-        SixJSymbol(j, 1, j, 1, j, 1), NineJSymbol(1, 1, 0, 1, 1, 0, 0, 0, 0),
+        CouplingBracket(j, m, 1, 0, j, m), Coupling3j(1, 1, 0, 0, 0, 0),
+        Coupling6j(j, 1, j, 1, j, 1), Coupling9j(1, 1, 0, 1, 1, 0, 0, 0, 0),
+        coupling_tree("((l s) j, I) F", l=2, s="1/2"),
+        tree_ket(coupling_tree("(a b) J", a=1, b="1/2", J="3/2"), "1/2"),
+        tree_ket(coupling_tree("(a b) J", a=1, b="1/2", J="3/2"), "1/2").dual(),
+        CoupledTensorOperator(T, SphericalTensor("U", 1, label="S"), 2),
     ]
 
 

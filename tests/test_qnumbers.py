@@ -104,3 +104,34 @@ def test_quantum_number_passes_symbols_but_checks_what_sympy_knows():
 def test_triangle_rule(a, b, c, ok):
     # triangle rule |a-b| <= c <= a+b with integer a+b+c: common practice, no source
     assert triangle(a, b, c) is ok
+
+
+# Issue 17 (type discipline): quantum-number text holds ASCII digits only.  Python's int() and the
+# regex class \d read other scripts' digits; code points from the Unicode character database.
+NON_ASCII_NUMBERS = [
+    "\u0663",           # ARABIC-INDIC DIGIT THREE, int() reads 3
+    "\u06f3/2",         # EXTENDED ARABIC-INDIC DIGIT THREE
+    "\u0969",           # DEVANAGARI DIGIT THREE
+    "\uff13",           # FULLWIDTH DIGIT THREE
+    "1/\u0662",         # ARABIC-INDIC DIGIT TWO as a denominator
+    "1\u0665",          # a mixed string of ASCII and Arabic-Indic digits
+    "\U0001d7d1",       # MATHEMATICAL BOLD DIGIT THREE
+    "3\u00a0",          # a no-break space after the number
+    "\u20073",          # FIGURE SPACE before it
+    "\u2212" + "1/2",   # MINUS SIGN instead of the ASCII hyphen-minus
+]
+
+
+@pytest.mark.parametrize("text", NON_ASCII_NUMBERS)
+def test_quantum_number_text_is_ascii_only(text):
+    with pytest.raises(NotNumericError, match="must be a number"):
+        doubled(text, "j")
+    assert not is_numeric(text)
+    from amalgebra.states import ket
+
+    with pytest.raises(NotNumericError):
+        ket(text, 0)
+
+
+def test_ascii_text_with_ascii_whitespace_still_reads():
+    assert [doubled(t) for t in ("3/2", " 3/2", "3/2\n", "\t-1/2 ", "+2")] == [3, 3, 3, -1, 4]

@@ -1,4 +1,4 @@
-"""Tests of amalgebra.rotations and amalgebra.rotations_series (Wigner D/d, composition, CG series)."""
+"""Tests of amalgebra.rotations.wigner and amalgebra.rotations.series (Wigner D/d, composition, CG series)."""
 
 import math
 import pickle
@@ -14,7 +14,7 @@ from sympy import (
 )
 
 from amalgebra.errors import NotNumericError, ProjectionError, QuantumNumberError
-from amalgebra.rotations import (
+from amalgebra.rotations.wigner import (
     RotationElement, clear_rotation_caches, inverse_euler_angles, small_d, small_d_matrix, wigner_D,
     wigner_D_matrix,
 )
@@ -195,7 +195,6 @@ def test_d00_is_legendre_polynomial_large_l():
         assert small_d(l, 0, 0, pi / 3) == legendre(l, Rational(1, 2)) != 0
 
 
-@settings(max_examples=30)
 @given(tj=st.integers(0, 12), data=st.data())
 @example(tj=5, data=None)
 def test_reflection_symmetries(tj, data):
@@ -282,7 +281,6 @@ def test_rotation_element_args_contract():
     assert D.is_commutative
 
 
-@settings(max_examples=30)
 @given(tj=st.integers(0, 9), data=st.data())
 def test_rotation_element_contract_property(tj, data):
     j = Rational(tj, 2)
@@ -351,8 +349,8 @@ def test_rotation_element_printing_in_expressions():
         r"\frac{D^{2}_{-1,0}\left(\alpha,\beta,\gamma\right)}{3}")
 
 
-@pytest.mark.parametrize("module_name", ["amalgebra.rotations", "amalgebra.rotations_series",
-                                         "amalgebra.rotations_actions", "amalgebra.harmonics"])
+@pytest.mark.parametrize("module_name", ["amalgebra.rotations.wigner", "amalgebra.rotations.series",
+                                         "amalgebra.rotations.actions", "amalgebra.rotations.harmonics"])
 def test_public_surface(module_name):
     import importlib
     module = importlib.import_module(module_name)

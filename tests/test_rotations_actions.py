@@ -1,4 +1,4 @@
-"""Tests of amalgebra.rotations_actions: rotating kets and angular-momentum operators."""
+"""Tests of amalgebra.rotations.actions: rotating kets and angular-momentum operators."""
 
 import math
 
@@ -9,7 +9,7 @@ from sympy import I, Add, Float, Mul, Poly, Pow, Rational, Symbol, cos, expand, 
 
 from amalgebra.algebra import AngularMomentum, AngularMomentumComponent
 from amalgebra.errors import NotNumericError, OperatorError
-from amalgebra.rotations_actions import rotate_ket, rotate_operator, rotated_components
+from amalgebra.rotations.actions import rotate_ket, rotate_operator, rotated_components
 from amalgebra.states import Ket, components, ket, product_ket
 
 BETA = Symbol("beta", real=True)

@@ -1,4 +1,4 @@
-"""Tests of amalgebra.rotations_series: composition of rotations and the Clebsch-Gordan series."""
+"""Tests of amalgebra.rotations.series: composition of rotations and the Clebsch-Gordan series."""
 
 import math
 
@@ -10,8 +10,8 @@ from hypothesis import strategies as st
 from sympy import Float, Poly, Rational, Symbol, cos, expand, expand_trig, eye, pi, simplify, sin, symbols, zeros
 
 from amalgebra.errors import NotNumericError, ProjectionError
-from amalgebra.rotations import RotationElement, small_d, small_d_matrix, wigner_D_matrix
-from amalgebra.rotations_series import clebsch_gordan_series, compose_euler_angles, compose_rotations
+from amalgebra.rotations.wigner import RotationElement, small_d, small_d_matrix, wigner_D_matrix
+from amalgebra.rotations.series import clebsch_gordan_series, compose_euler_angles, compose_rotations
 
 BETA = Symbol("beta", real=True)
 ALPHA, GAMMA = symbols("alpha gamma", real=True)
@@ -46,7 +46,6 @@ def index(j, m):
     return int(Rational(j) - Rational(m))
 
 
-@settings(max_examples=12)
 @given(tj=st.integers(0, 6),
        angles=st.lists(st.floats(-7, 7, allow_nan=False), min_size=6, max_size=6))
 def test_composition_and_unitarity_numeric(tj, angles):

@@ -20,7 +20,7 @@ from sympy import Add, Integer, Mul, Pow, Rational, Symbol, factor, factorial, s
 
 from amalgebra.algebra import AngularMomentum, dot
 from amalgebra.derivations import derivation
-from amalgebra.numeric import to_matrix
+from amalgebra.matrices.explicit import to_matrix
 from amalgebra.states import (apply, inner, ket, multiplet_count, product_ket, singlet,
                               spin_labels, tensor, to_uncoupled, total_spin_squared,
                               total_spin_states)

@@ -19,9 +19,11 @@ at most 2x2 because J = 1/2.  The derivations below
   x = (gJ - gI) b / dW, with the stretched states M = +-(I + 1/2) on a single branch;
 * read off the weak-field g_F factors from the slope at b = 0.
 
-The plot of the levels against the field uses invented numbers (``PLOT_VALUES``) and
-is written by :func:`write_level_plot` only when the optional dependency matplotlib
-(``pip install amalgebra[plot]``) is importable; the derivations never need it::
+The level diagram against the field is drawn by the library
+(:mod:`amalgebra.plotting`: the exact coupled-basis matrix of H, diagonalised block by
+block at each field value, levels labelled by F and M) with invented numbers
+(``PLOT_VALUES``); it needs the optional dependency matplotlib
+(``pip install amalgebra[plot]``), the derivations never do::
 
     python worked_examples/deriv_hyperfine_zeeman.py levels.png
 """
@@ -138,62 +140,66 @@ def weak_field_g_factors(d):
     d.result("g_F2", results[2])
 
 
-def level_curves(fields, values=None):
-    """Numeric Breit-Rabi levels of Quillium-93: ``{(F, M): [E(b) for b in fields]}``.
+def plot_hamiltonian():
+    """The exact matrix of :func:`hamiltonian` in the coupled basis |(I J) F M>, ``b`` left symbolic.
 
-    ``values`` overrides :data:`PLOT_VALUES` (keys ``A``, ``gJ``, ``gI``).  Plain floats;
-    no matplotlib needed.  Each branch of a stretched state is taken with the linear
-    form ``1 +- x`` so that the curves are smooth through ``x = 1``.
+    This is what the level plot diagonalises: ``M`` is conserved (its blocks label the
+    levels exactly); ``F`` is read off at ``b = 0``, where the coupled kets are the eigenstates.
     """
-    import math
+    return hamiltonian_matrix(hamiltonian(), {"I": I_SPIN, "J": J_SPIN}, basis="coupled")
+
+
+def level_curves(fields, values=None):
+    """Numeric Quillium-93 levels along ``b = mu_B B`` from the library
+    (:func:`amalgebra.plotting.energy_levels` on :func:`plot_hamiltonian`).
+
+    ``values`` overrides :data:`PLOT_VALUES` (keys ``A``, ``gJ``, ``gI``).  Returns the
+    :class:`~amalgebra.plotting.LevelCurves`: twelve levels labelled by ``F`` (at
+    ``b = 0``) and ``M``; energies are ``E/h`` in the unit of ``A`` (GHz).  Needs numpy.
+    """
+    from amalgebra.plotting import energy_levels
 
     vals = dict(PLOT_VALUES, **(values or {}))
-    a, g_j, g_i = vals["A"], vals["gJ"], vals["gI"]
-    dw = a*float(I_SPIN + Rational(1, 2))
-    twice_i = int(2*I_SPIN)
-    curves = {}
-    for F, sign in ((3, 1), (2, -1)):
-        for m2 in range(-2*F, 2*F + 1, 2):
-            m = m2/2
-            row = []
-            for field in fields:
-                x = (g_j - g_i)*field/dw
-                if abs(m2) == twice_i + 1:      # stretched: M = +-(I + 1/2), upper branch
-                    root = 1 + (x if m > 0 else -x)
-                else:
-                    root = math.sqrt(1 + 4*m*x/(twice_i + 1) + x*x)
-                row.append(-dw/(2*(twice_i + 1)) + g_i*field*m + sign*dw/2*root)
-            curves[(F, m2//2)] = row
-    return curves
+    return energy_levels(plot_hamiltonian(), b, fields, label_at=0,
+                         parameters={A: vals["A"], gJ: vals["gJ"], gI: vals["gI"]})
 
 
 def write_level_plot(path, fields=None, values=None):
-    """Write a PNG of the Quillium-93 levels against ``b = mu_B B``; return the path.
+    """Write the level diagram of Quillium-93 against ``b = mu_B B`` (GHz); return the path.
 
-    Needs the optional dependency matplotlib (``amalgebra[plot]``); raises
-    ``ModuleNotFoundError`` with an install hint when it is missing.
+    Drawn by :func:`amalgebra.plotting.plot_levels` (colour and legend by ``F``, each
+    curve annotated with its ``M``).  Needs the optional dependency matplotlib
+    (``amalgebra[plot]``); raises ``ModuleNotFoundError`` with an install hint when it
+    is missing.
     """
-    try:
-        # the Figure API: no pyplot, so no global backend or figure state is touched
-        from matplotlib.figure import Figure
-    except ModuleNotFoundError as exc:
-        raise ModuleNotFoundError(
-            "the level plot needs matplotlib: pip install 'amalgebra[plot]'") from exc
+    from amalgebra.plotting import plot_levels
 
     if fields is None:
         fields = [0.05*k for k in range(121)]
-    curves = level_curves(fields, values)
-    fig = Figure(figsize=(6, 4.5))
-    ax = fig.subplots()
-    for (F, m), row in sorted(curves.items()):
-        ax.plot(fields, row, color="C0" if F == 3 else "C1", lw=1)
-    ax.set_xlabel(r"$\mu_B B$ (GHz)")
-    ax.set_ylabel("E (GHz)")
-    ax.set_title("Quillium-93 (invented): Breit-Rabi levels, I = 5/2, J = 1/2")
-    fig.tight_layout()
-    fig.savefig(path, dpi=120)
+    ax = plot_levels(level_curves(fields, values), color_by="F", annotate=("M",),
+                     energy_unit="GHz", field_label=r"$\mu_B B/h$",
+                     title="Quillium-93 (invented): hyperfine levels in a field, I = 5/2, J = 1/2")
+    ax.figure.savefig(path, dpi=120)
     return path
 
 
+def main(argv=None):
+    """Command line: ``python deriv_hyperfine_zeeman.py [OUTPUT]`` writes the level diagram."""
+    import argparse
+    from pathlib import Path
+
+    parser = argparse.ArgumentParser(
+        prog="deriv_hyperfine_zeeman.py",
+        description="Draw the hyperfine-Zeeman level diagram of the invented atom Quillium-93 "
+                    "(needs matplotlib: pip install 'amalgebra[plot]').")
+    parser.add_argument("output", nargs="?", default="quillium93_levels.png",
+                        help="image file to write: .png, .pdf or .svg (default: %(default)s)")
+    args = parser.parse_args(argv)
+    if Path(args.output).suffix.lower() not in (".png", ".pdf", ".svg"):
+        parser.error(f"output={args.output!r} must end in .png, .pdf or .svg")
+    print(write_level_plot(args.output))
+    return 0
+
+
 if __name__ == "__main__":  # pragma: no cover - manual use
-    print(write_level_plot(sys.argv[1] if len(sys.argv) > 1 else "quillium93_levels.png"))
+    sys.exit(main())

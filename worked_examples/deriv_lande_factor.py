@@ -23,7 +23,7 @@ from sympy import Add, Mul, Rational, Symbol, sqrt
 
 from amalgebra.algebra import AngularMomentum, dot
 from amalgebra.derivations import derivation
-from amalgebra.reduced import reduced_from_element
+from amalgebra.tensors.wigner_eckart import reduced_from_element
 from amalgebra.states import coupled_ket, expectation, matrix_element
 from amalgebra.tensors import projected_reduced
 

@@ -18,7 +18,7 @@ derivations below
 * prove the boson images of the commutation relations, of J^2 and of [Jy, a^dagger]
   in the normal-ordered (canonical) boson algebra;
 * compute every d^{3/2}_{m'm}(beta) in the boson picture with
-  :mod:`amalgebra.bosons` and compare it with :func:`amalgebra.rotations.small_d`
+  :mod:`amalgebra.bosons` and compare it with :func:`amalgebra.rotations.wigner.small_d`
   and with Wigner's explicit sum (Sakurai eq. 3.8.33; from memory);
 * check the unitarity of the rotated kets.
 """
@@ -29,7 +29,7 @@ from amalgebra.algebra import AngularMomentum, commutator
 from amalgebra.bosons import (BosonMode, apply_bosons, fock_bra, fock_inner, fock_ket,
                               rotated_creators, to_bosons, vacuum)
 from amalgebra.derivations import derivation
-from amalgebra.rotations import small_d
+from amalgebra.rotations.wigner import small_d
 
 J = AngularMomentum("J")
 MODE_A, MODE_B = BosonMode("a"), BosonMode("b")

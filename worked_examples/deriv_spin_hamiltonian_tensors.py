@@ -26,7 +26,7 @@ from sympy import Add, I, Integer, Rational, eye, symbols
 
 from amalgebra.algebra import AngularMomentum
 from amalgebra.derivations import derivation
-from amalgebra.numeric import to_matrix
+from amalgebra.matrices.explicit import to_matrix
 from amalgebra.tensors import decompose, recombine
 
 S = AngularMomentum("S")

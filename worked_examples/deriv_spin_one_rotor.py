@@ -13,7 +13,7 @@ from sympy import I, Rational, Symbol, symbols
 
 from amalgebra.algebra import AngularMomentum, canonical
 from amalgebra.derivations import derivation
-from amalgebra.numeric import to_matrix
+from amalgebra.matrices.explicit import to_matrix
 
 S = AngularMomentum("S")
 

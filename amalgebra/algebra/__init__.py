@@ -6,7 +6,9 @@ Public map
 Operators (:mod:`.operators`)
     :class:`AngularMomentum`, :class:`AngularMomentumComponent`, :func:`dot`
 Canonical form (:mod:`.canonical`, kernel in :mod:`.shiftform`, modes in :mod:`.modes`)
-    :func:`canonical`, :func:`ladder_terms`, :func:`collect_casimir`, :func:`shift_form`
+    :func:`canonical`, :func:`ladder_terms`, :func:`collect_casimir`, :func:`shift_form`,
+    :func:`operator_coefficients` (coefficients as data); coefficient domain and normal
+    form in :mod:`.coefficients`
 Commutators (:mod:`.commutators`)
     :func:`commutator`, :func:`nested_commutator`, :func:`adjoint_action`
 Rewriting (:mod:`.rewrite`)
@@ -21,7 +23,7 @@ Examples
 I*J.minus/2 + I*J.plus/2
 """
 
-from .canonical import canonical, collect_casimir, ladder_terms, shift_form
+from .canonical import canonical, collect_casimir, ladder_terms, operator_coefficients, shift_form
 from .commutators import adjoint_action, commutator, nested_commutator
 from .operators import AngularMomentum, AngularMomentumComponent, dot
 from .rewrite import to_cartesian, to_ladder
@@ -34,6 +36,7 @@ __all__ = [
     "ladder_terms",
     "collect_casimir",
     "shift_form",
+    "operator_coefficients",
     "commutator",
     "nested_commutator",
     "adjoint_action",

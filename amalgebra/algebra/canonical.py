@@ -13,7 +13,10 @@ one expression as
 
 (the *m-shift form*): ladder powers of the labels in sorted order on the
 left, then for each label (sorted) a power of its Casimir and of its
-:math:`z` component, with fully expanded exact coefficients.  Two
+:math:`z` component, one term per operator monomial, its coefficient in the
+one normal form of the coefficient domain (:mod:`amalgebra.algebra.coefficients`:
+rational functions over :math:`\mathbb{Q}(i)` and radicals, ``exp``/``sin``/``cos`` of
+symbols as Laurent polynomials in :math:`e^{ix}`).  Two
 expressions are equal as operators exactly when their canonical forms are
 structurally equal (``==``).  With spherical tensor and vector operator
 components (:mod:`amalgebra.tensors.mixedform`, reached through the hooks of
@@ -42,7 +45,7 @@ I*J.z
 See Also
 ========
 
-amalgebra.algebra.commutators.commutator, amalgebra.numeric.to_matrix
+amalgebra.algebra.commutators.commutator, amalgebra.matrices.explicit.to_matrix
 
 References
 ==========
@@ -63,11 +66,27 @@ from .shiftform import _IOTA, _ring, _sum
 
 _UNUSED = Dummy("unused")  # a ring needs one generator even for numeric eigenvalues
 
-__all__ = ["canonical", "ladder_terms", "collect_casimir", "shift_form"]
+__all__ = ["canonical", "ladder_terms", "collect_casimir", "shift_form", "operator_coefficients"]
 
 
-def canonical(expr):
-    """Return the unique normal-ordered form of ``expr`` (see the module docstring).
+def canonical(expr, components="ladder"):
+    r"""Return the unique normal-ordered form of ``expr`` (see the module docstring).
+
+    Coefficients are collected, one term per operator monomial, each in the normal form
+    of :mod:`amalgebra.algebra.coefficients` (rational functions over Q(i) and radicals;
+    ``exp``, ``sin``, ``cos`` of symbols as Laurent polynomials in ``exp(i x)``, printed
+    in Fourier form), so equal operators give ``==`` results:
+
+    >>> from sympy import I, Symbol, cos, sin
+    >>> from amalgebra.algebra import AngularMomentum, canonical
+    >>> J = AngularMomentum("J")
+    >>> b, t = Symbol("b"), Symbol("t")
+    >>> canonical(b*J.x + b*J.y)
+    b*(1 + I)*J.minus/2 + b*(1 - I)*J.plus/2
+    >>> canonical((sin(t)**2 + cos(t)**2 - 1)*J.z)
+    0
+    >>> canonical(J.plus**2, components="cartesian")   # the same form, J+- = Jx +- i Jy
+    (J.x + I*J.y)**2
 
     Examples
     ========
@@ -102,16 +121,87 @@ def canonical(expr):
         A polynomial (nonnegative integer powers only) in components of
         :class:`~amalgebra.algebra.AngularMomentum` (and of spherical tensors
         and vector operators, see above) with commutative coefficients.
+    components : ``"ladder"`` (default) or ``"cartesian"``
+        How the unique form is presented: ladder powers :math:`J_\pm^d`, or the same
+        terms with :math:`J_\pm = J_x \pm i J_y` (``(J.x + I*J.y)**d``; ``J.z``, ``J.squared``
+        unchanged).  Both are deterministic functions of the operator.
 
     Raises
     ======
 
     OperatorError
         For negative/non-integer/symbolic powers of operators, unknown
-        noncommutative objects, or input that is not an expression.
+        noncommutative objects, unsupported coefficients, or input that is not an
+        expression.
     """
+    if components not in ("ladder", "cartesian"):
+        raise OperatorError(f"components={components!r} must be 'ladder' or 'cartesian'")
     algebra, (element,) = kernel_for(expr)
-    return algebra.to_expr(element)
+    out = algebra.to_expr(element)
+    if components == "cartesian":
+        from .rewrite import to_cartesian
+        out = to_cartesian(out)
+    return out
+
+
+def operator_coefficients(expr):
+    r"""The coefficients of ``expr`` as data: ``{operator monomial: coefficient}``.
+
+    Explanation
+    ===========
+
+    Keys are the operator monomials of the canonical form (``J.plus**2*J.z``,
+    ``J.minus*S.z``, ...; ``1`` for the identity), values their coefficients in
+    the normal form of :mod:`amalgebra.algebra.coefficients`; zero coefficients
+    are left out and keys are in SymPy's sort order.  Two operators are equal
+    exactly when these dicts are equal, so an operator equation ``lhs = rhs``
+    with unknown coefficients is the system ``operator_coefficients(lhs - rhs)``
+    of ordinary equations, ready for ``sympy.solve``.  (``solve`` on the operator
+    expression itself finds nothing: SymPy does not split noncommutative terms.)
+
+    Examples
+    ========
+
+    >>> from sympy import solve, symbols
+    >>> from amalgebra.algebra import AngularMomentum, operator_coefficients
+    >>> J = AngularMomentum("J")
+    >>> a, b = symbols("a b")
+    >>> eqs = operator_coefficients(J.x**2 + J.y**2 + a*J.z**2 + b*J.z - J.squared)
+    >>> eqs
+    {J.z: b, J.z**2: a - 1}
+    >>> solve(list(eqs.values()), [a, b], dict=True)       # J^2 = Jx^2 + Jy^2 + Jz^2
+    [{a: 1, b: 0}]
+
+    Unknown coefficients of a commutator (:math:`[J_z, X] = J_+` for
+    :math:`X = a J_+ + b J_- + c J_z`):
+
+    >>> from amalgebra.algebra import commutator
+    >>> c = symbols("c")
+    >>> solve(list(operator_coefficients(commutator(J.z, a*J.plus + b*J.minus + c*J.z) - J.plus).values()),
+    ...       [a, b], dict=True)
+    [{a: 1, b: 0}]
+
+    Parameters
+    ==========
+
+    expr : Expr
+        Anything :func:`canonical` accepts.
+    """
+    from .coefficients import normal_or_expanded
+
+    out = {}
+    for term in Add.make_args(canonical(expr)):
+        if term == 0:
+            continue
+        c, nc = term.args_cnc()
+        key = Mul(*nc) if nc else S.One
+        out.setdefault(key, []).append(Mul(*c))
+    result = {}
+    for key in sorted(out, key=default_sort_key):
+        value = normal_or_expanded(Add(*out[key]))[0]
+        if value != 0:
+            result[key] = value
+    return result
 
 
 def shift_form(expr):
@@ -143,6 +233,9 @@ def collect_casimir(expr, label):
     ``canonical(expr) == sum(J.squared**k * coefficient)``; the coefficients
     are canonical and free of that Casimir.  As :math:`J^2` is central, one
     may then put :math:`j(j+1)` in its place.
+
+    Examples
+    ========
 
     >>> from amalgebra.algebra import AngularMomentum
     >>> J = AngularMomentum("J")
@@ -253,7 +346,7 @@ def _evaluator(algebra, values):
         symbols |= value.free_symbols
     symbols = sorted(symbols, key=default_sort_key)
     domain = algebra.domain
-    if set(getattr(domain, "symbols", ())) & set(symbols) or domain.is_EX:
+    if algebra.scalars is not None or domain.is_EX:   # normal-form coefficients: through SymPy
         return _expr_evaluator(algebra, values)
     ground = algebra.ground  # ZZ for Gaussian algebras: iota stays a generator, as in the kernel
     extra = (_IOTA,) if algebra.gaussian else ()

@@ -32,7 +32,7 @@ I*J.z
 3*J.plus**3
 >>> t = symbols("t")
 >>> adjoint_action(I*t*J.z, J.plus, 3)   # e^{i t Jz} J+ e^{-i t Jz} = e^{i t} J+, to order 3
--I*t**3*J.plus/6 - t**2*J.plus/2 + I*t*J.plus + J.plus
+-(I*t**3 + 3*t**2 - 6*I*t - 6)*J.plus/6
 
 With a vector operator (Sakurai (3.10.1)): :math:`[J_x, V_y] = i V_z`, and
 rotating :math:`V_x` about :math:`z` by angle :math:`t` gives
@@ -102,6 +102,9 @@ def commutator(a, b):
 def nested_commutator(x, y, n):
     """Return ``[x, [x, ... [x, y]]]`` with ``n`` brackets (``n = 0`` gives ``y``).
 
+    Examples
+    ========
+
     >>> from amalgebra.algebra import AngularMomentum, nested_commutator
     >>> J = AngularMomentum("J")
     >>> nested_commutator(J.z, J.minus, 4)      # ad_{Jz}^n J- = (-1)^n J-
@@ -122,19 +125,22 @@ def adjoint_action(x, y, order):
     r"""Return :math:`\sum_{n=0}^{\mathrm{order}} \mathrm{ad}_x^n(y)/n!`, the
     truncation of :math:`e^{x} y e^{-x}` after the term ``n = order``.
 
+    Examples
+    ========
+
     >>> from sympy import symbols, I
     >>> from amalgebra.algebra import AngularMomentum, adjoint_action
     >>> J = AngularMomentum("J")
     >>> b = symbols("b")
     >>> adjoint_action(-I*b*J.y, J.z, 2)   # rotation about y, to second order in b
-    -b**2*J.z/2 + b*J.minus/2 + b*J.plus/2 + J.z
+    b*J.minus/2 + b*J.plus/2 - (b**2 - 2)*J.z/2
 
     Tensor components rotate as well (:math:`e^{-i b J_z} T_q e^{i b J_z} = e^{-i q b} T_q`):
 
     >>> from amalgebra.tensors import SphericalTensor
     >>> T = SphericalTensor("T", 2, "J")
     >>> adjoint_action(-I*b*J.z, T[2], 2)
-    -2*b**2*T^(2)_(2) - 2*I*b*T^(2)_(2) + T^(2)_(2)
+    -(2*b**2 + 2*I*b - 1)*T^(2)_(2)
 
     Parameters
     ==========

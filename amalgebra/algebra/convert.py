@@ -11,10 +11,12 @@ all the expressions given together and converts them.  Domain strategy
 
 * rational numbers: numerators in ``ZZ`` (Python ints) over an integer
   denominator per element; with ``I`` or a ``y`` component: ``ZZ_I``;
-* symbols and functions of symbols: a rational-function field
-  (``construct_domain(..., field=True)``, e.g. ``QQ_I(a, b)``);
-* algebraic numbers (``sqrt(2)``): an algebraic field ``QQ<...>``;
-  algebraic numbers mixed with symbols fall back to ``EX``.
+* anything else (symbols, ``I`` with symbols, radicals, ``exp``/``sin``/``cos``
+  of symbols, opaque atoms): the normal-form domain of
+  :mod:`amalgebra.algebra.coefficients`, integer polynomials in generators
+  (or their fraction field) whose relations (``i^2 = -1``, ``sqrt(2)^2 = 2``,
+  ``E E^-1 = 1``) are applied when coefficients leave the kernel, so that every
+  coefficient has one normal form and zero is decided exactly.
 
 Bad input raises :class:`~amalgebra.errors.OperatorError`: negative,
 non-integer or symbolic powers of operators, unknown noncommutative objects,
@@ -32,20 +34,21 @@ Examples
 ZZ_I
 >>> algebra.to_expr(algebra.sub(algebra.mul(x, x), algebra.mul(y, y)))   # Jx^2 + Jy^2
 J.squared - J.z**2
->>> kernel_of(Symbol("a")*J.z)[0].domain
-ZZ[a]
+>>> algebra, (a,) = kernel_of(Symbol("a")*(1 + I)*J.z/2)
+>>> algebra.to_expr(a)                  # coefficient c*N with N primitive (module coefficients)
+a*(1 + I)*J.z/2
 """
 
 from math import lcm
 
-from sympy import I, Expr, Mul, Pow, S, default_sort_key, expand, together
+from sympy import Expr, Float, I, Mul, S, default_sort_key, expand
 from sympy.polys.constructor import construct_domain
-from sympy.polys.domains import QQ, ZZ, ZZ_I
-from sympy.polys.polyerrors import GeneratorsError, PolificationFailed
-from sympy.polys.polytools import parallel_poly_from_expr
+from sympy.polys.domains import ZZ, ZZ_I
 from sympy.polys.polyerrors import CoercionFailed
 
 from ..errors import OperatorError
+from ..limits import check_limit
+from .coefficients import scalar_domain
 from .modes import ANGULAR_MOMENTUM, mode_of
 from .shiftform import Element, ShiftAlgebra
 
@@ -64,11 +67,17 @@ def _check_expr(expr, name="expr"):
 
 
 def operator_power_base(node):
-    """The base of an operator power ``node``; the exponent must be a nonnegative integer."""
+    """The base of an operator power ``node``; the exponent must be a nonnegative integer.
+
+    An exponent above ``max_power`` of :mod:`amalgebra.limits` (default 1000) raises
+    :class:`~amalgebra.errors.LimitError` before any work.
+    """
     base, exp = node.args
     if not (exp.is_Integer and exp >= 0):
         raise OperatorError(f"exponent={exp} of {base} must be a nonnegative integer: "
                             f"operators have no inverses or roots here")
+    # refused before any work: canonical(J.x**n) has of the order of n^3 terms (amalgebra.limits)
+    check_limit("max_power", int(exp), "exponent", "an operator power is expanded term by term")
     return base
 
 
@@ -122,6 +131,9 @@ def choose_domain(scalars, constants):
 
     Rational and Gaussian-rational coefficients give ``ZZ``/``ZZ_I``: elements
     carry an integer denominator, see :class:`~amalgebra.algebra.shiftform.Element`.
+    Anything else (symbols, radicals, exp/sin/cos of symbols, opaque atoms) gets
+    the normal-form domain of :mod:`amalgebra.algebra.coefficients`; float input
+    keeps SymPy's float domain (no normal form is promised for floats).
     """
     values = list(scalars) + list(constants)
     if all(v.is_Rational for v in values):
@@ -129,48 +141,9 @@ def choose_domain(scalars, constants):
     if all(_gaussian_rational(v) is not None for v in values):
         return ZZ_I
     values = sorted(set(values), key=default_sort_key)  # generator order must not depend on the hash seed
-    if all(v.is_number and v.is_algebraic for v in values):
-        try:
-            return construct_domain(values, field=True, extension=True)[0]
-        except (CoercionFailed, NotImplementedError, ValueError):  # pragma: no cover - defensive
-            pass
-    # a polynomial ring when the coefficients allow it: no gcds on every operation
-    domain = construct_domain(values)[0]
-    if domain.is_EX:
-        domain = _algebraic_function_field(values) or domain
-    return domain
-
-
-def _algebraic_function_field(values):
-    """``QQ<alpha>(x, y, ...)`` for algebraic numbers mixed with symbols, or None.
-
-    ``construct_domain`` answers ``EX`` there, whose every operation calls
-    ``cancel``: measured 6 s against 0.1 s for ``(sqrt(2) a Jx + Jz)^6``.
-    """
-    algebraic = set()
-    for value in values:
-        for atom in value.atoms(Pow):
-            if atom.is_number and atom.is_algebraic and not atom.is_Rational:
-                algebraic.add(atom)
-        if value.has(I):
-            algebraic.add(I)
-    if not algebraic:
-        return None
-    try:
-        field = QQ.algebraic_field(*sorted(algebraic, key=default_sort_key))
-        parts = []
-        for value in values:
-            parts.extend(together(value).as_numer_denom())
-        _, options = parallel_poly_from_expr(parts, domain=field)
-        if not options.gens:
-            return field
-        polynomial = all(together(value).as_numer_denom()[1].is_number for value in values)
-        domain = field.poly_ring(*options.gens) if polynomial else field.frac_field(*options.gens)
-        for value in values:
-            domain.from_sympy(value)
-        return domain
-    except (CoercionFailed, NotImplementedError, ValueError, PolificationFailed, GeneratorsError):
-        return None
+    if any(v.has(Float) for v in values):
+        return construct_domain(values)[0]
+    return scalar_domain(values).domain
 
 
 def build_algebra(*exprs, extra_labels=()):
@@ -230,6 +203,9 @@ def _convert(algebra, node, memo):
 
 def _scalar(domain, value):
     """``(numerator, den)`` of a commutative SymPy value for ``domain``."""
+    scalars = getattr(domain, "scalars", None)
+    if scalars is not None:
+        return scalars.convert(value)
     if domain.is_ZZ:
         return domain(int(value.p)), int(value.q)
     if domain.is_GaussianRing:

@@ -53,6 +53,7 @@ from sympy.core.symbol import Str
 from sympy.matrices import MatrixBase
 from sympy.matrices.expressions import MatrixExpr
 
+from .._validation import check_label
 from ..notation import NotationHooks
 from ..errors import OperatorError
 
@@ -64,13 +65,8 @@ _ADJOINT = {"plus": "minus", "minus": "plus"}
 
 
 def _check_label(label, name="label"):
-    if isinstance(label, Str):
-        label = label.name
-    if not isinstance(label, str):
-        raise OperatorError(f"{name}={label!r} must be a str such as 'J', 'L', 'S' or 'I'")
-    if not label.isidentifier() or not label.isascii():
-        raise OperatorError(f"{name}={label!r} must be an identifier-like name such as 'J', 'L1' or 'S'")
-    return label
+    # the package's one label rule (amalgebra._validation.check_label)
+    return check_label(label, name, OperatorError)
 
 
 def _is_addable(other):
@@ -235,8 +231,8 @@ class AngularMomentum(LabelledFamily, Basic):
     x = property(lambda self: self.component("x"), doc="The Cartesian component J_x.")
     y = property(lambda self: self.component("y"), doc="The Cartesian component J_y.")
     z = property(lambda self: self.component("z"), doc="The Cartesian component J_z.")
-    plus = property(lambda self: self.component("plus"), doc="The raising operator J_+ = J_x + i J_y.")
-    minus = property(lambda self: self.component("minus"), doc="The lowering operator J_- = J_x - i J_y.")
+    plus = property(lambda self: self.component("plus"), doc="The raising operator ``J_+ = J_x + i J_y``.")
+    minus = property(lambda self: self.component("minus"), doc="The lowering operator ``J_- = J_x - i J_y``.")
     squared = property(lambda self: self.component("squared"), doc="The Casimir J^2.")
 
     @property
@@ -419,6 +415,13 @@ class AngularMomentumComponent(LabelledGenerator, Expr):
     def component(self):
         """The component name, a ``str``."""
         return self.args[1].name
+
+    @property
+    def precedence(self):
+        """Printing precedence (read by ``sympy.printing.precedence``): ``J.squared`` is a power."""
+        from amalgebra.notation import component_precedence
+
+        return component_precedence(self)
 
     @property
     def parent(self):

@@ -38,7 +38,18 @@ def _components(expr):
 
 
 def to_ladder(expr):
-    """Replace every ``x`` and ``y`` component by ladder operators (see module)."""
+    """Replace every ``x`` and ``y`` component by ladder operators (see module).
+
+    Examples
+    ========
+
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> J = AngularMomentum("J")
+    >>> to_ladder(J.x)
+    (J.minus + J.plus)/2
+    >>> to_cartesian(to_ladder(J.x * J.y)).expand() == (J.x * J.y).expand() != 0
+    True
+    """
     expr = _check_expr(expr)
     mapping = {}
     for c in _components(expr):
@@ -51,7 +62,18 @@ def to_ladder(expr):
 
 
 def to_cartesian(expr, casimir=False):
-    """Replace every ladder component by ``x +- i y`` (and ``J^2`` if ``casimir``)."""
+    """Replace every ladder component by ``x +- i y`` (and ``J^2`` if ``casimir``).
+
+    Examples
+    ========
+
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> J = AngularMomentum("J")
+    >>> to_cartesian(J.plus)
+    J.x + I*J.y
+    >>> to_cartesian(J.squared, casimir=True)
+    J.x**2 + J.y**2 + J.z**2
+    """
     expr = _check_expr(expr)
     mapping = {}
     for c in _components(expr):

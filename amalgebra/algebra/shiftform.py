@@ -58,12 +58,14 @@ Examples
 from functools import lru_cache
 from math import comb, lcm
 
-from sympy import Add, Dummy, I, Mul, Rational, S
-from sympy.core.add import _addsort
+from sympy import Add, Basic, Dummy, I, Mul, Rational, S
+from sympy.core.basic import ordering_of_classes
 from sympy.polys.domains import ZZ
 from sympy.polys.rings import PolyRing
 
-__all__ = ["ShiftAlgebra", "Element", "clear_caches"]
+from .coefficients import gaussian_terms
+
+__all__ = ["ShiftAlgebra", "Element", "clear_caches", "compare_key"]
 
 
 @lru_cache(maxsize=None)
@@ -122,6 +124,7 @@ class ShiftAlgebra:
         self.shift_var = tuple(idx[mode.shift_index] for idx, mode in zip(self.var_index, self.modes))
         self.position = {label: i for i, label in enumerate(self.labels)}
         self.identity_shift = (0,) * len(self.labels)
+        self.scalars = getattr(domain, "scalars", None)   # the normal-form coefficient domain, if any
         self._factor_cache = {}
         self._binomial_cache = {}
         self._dom = {}
@@ -155,7 +158,13 @@ class ShiftAlgebra:
         returned monomials is 0); otherwise this is ``poly.items()``.
         """
         if not self.gaussian:
-            return list(poly.items())
+            scalars = self.scalars
+            if scalars is None:
+                return list(poly.items())
+            if scalars.field:
+                return [(m, c) for m, c in poly.items() if not scalars.is_zero(c)]
+            reduce = scalars.reduce
+            return [(m, r) for m, r in ((m, reduce(c)) for m, c in poly.items()) if r]
         t = self.iota
         acc = {}
         for mon, c in poly.items():
@@ -265,8 +274,12 @@ class ShiftAlgebra:
         return Element({k: p.mul_ground(num) for k, p in a.items()}, a.den * den)
 
     def equal(self, a, b):
-        """Operator equality of two elements (denominators may differ)."""
-        return not self.sub(a, b)
+        """Operator equality of two elements (denominators may differ), decided in the normal form."""
+        return self.is_zero(self.sub(a, b))
+
+    def is_zero(self, a):
+        """True when ``a`` is 0 once coefficient relations (``i^2 = -1``, ...) are applied."""
+        return not any(self.terms(poly) for poly in a.values())
 
     def _domain_int(self, n):
         value = self._dom.get(n)
@@ -405,38 +418,40 @@ class ShiftAlgebra:
         return tuple(factors)
 
     def coefficient(self, element, coeff):
-        """A kernel coefficient of ``element`` as a SymPy expression (denominator applied)."""
+        """A kernel coefficient of ``element`` as a SymPy expression (denominator applied), in the
+        normal form of :mod:`amalgebra.algebra.coefficients`."""
+        if self.scalars is not None:
+            return self.scalars.to_sympy(coeff, element.den)
+        if self.gaussian:
+            x, y = int(coeff.x), int(coeff.y)
+            return Rational(x, element.den) + Rational(y, element.den) * I
         value = self.domain.to_sympy(coeff)
         return value if element.den == 1 else value / element.den
 
     def to_expr(self, element):
-        """Convert to a SymPy expression with one ``Add(*terms)``."""
+        """Convert to a SymPy expression with one ``Add(*terms)``: one term per operator
+        monomial, the coefficient in the normal form of :mod:`amalgebra.algebra.coefficients`."""
         den = element.den
         terms = []
+        domain = self.domain
+        scalars = self.scalars
         for key, mon, coeff in self.sorted_items(element):
             factors = self.term_factors(key, mon)
-            for part in self._parts(coeff, den):
-                terms.append(_term(part, factors))
+            if domain.is_ZZ:
+                terms.append(_term(Rational(int(coeff), den), factors))
+            elif self.gaussian:
+                terms.extend(gaussian_terms(int(coeff.x), int(coeff.y), den, factors, _term))
+            elif scalars is not None:
+                c, n, d = scalars.parts(coeff, den)
+                if not factors:
+                    terms.extend(Add.make_args(c * n / d))
+                else:
+                    terms.append(Mul(c, n, 1 / d, *factors))
+            else:   # float input: SymPy's own domain, expanded into monomials
+                value = domain.to_sympy(coeff)
+                for part in (value.args if value.is_Add else (value,)):
+                    terms.append(Mul(part if den == 1 else part / den, *factors))
         return _sum(terms)
-
-    def _parts(self, coeff, den):
-        """The coefficient ``coeff/den`` as a list of SymPy monomials (fully expanded).
-
-        A polynomial coefficient in user symbols is spread into monomials;
-        a rational function stays one coefficient.
-        """
-        domain = self.domain
-        if domain.is_ZZ:
-            return [Rational(int(coeff), den)]
-        if self.gaussian:
-            parts = []
-            if coeff.x:
-                parts.append(Rational(int(coeff.x), den))
-            if coeff.y:
-                parts.append(Mul(Rational(int(coeff.y), den), I))
-            return parts
-        value = domain.to_sympy(coeff)
-        return [part if den == 1 else part / den for part in (value.args if value.is_Add else (value,))]
 
 
 class Element(dict):
@@ -478,17 +493,60 @@ def _sum(terms):
     """``Add(*terms)`` for distinct terms, with Add's own canonical arg order.
 
     ``Add.flatten`` would find nothing to collect (every term has a distinct
-    monomial), put a bare number first and sort the rest with ``_addsort``;
-    doing exactly that directly skips its assumption queries.
+    monomial), put a bare number first and sort the rest with ``Basic.compare``;
+    here the same order comes from a tuple key equal to ``Basic.compare``
+    (:func:`compare_key`, computed once per distinct sub-expression), without
+    ``Add.flatten``'s assumption queries.  Tests check ``_sum(t) == Add(*t)``
+    argument for argument.
     """
     numbers = [t for t in terms if t.is_Number]
     rest = [t for t in terms if not t.is_Number]
     if len(numbers) > 1:
         return Add(*terms)
-    _addsort(rest)
+    if len(rest) > 1:
+        cache = {}
+        rest.sort(key=lambda t: compare_key(t, cache))
     args = numbers + rest
     if not args:
         return S.Zero
     if len(args) == 1:
         return args[0]
     return Add._from_args(args, is_commutative=all(t.is_commutative for t in args))
+
+
+_CLASS_KEYS = {}
+
+
+def _class_key(cls):
+    hit = _CLASS_KEYS.get(cls)
+    if hit is None:
+        name = cls.__name__
+        if name in ordering_of_classes:
+            hit = (ordering_of_classes.index(name), "")
+        else:
+            hit = (len(ordering_of_classes) + 1, name)
+        _CLASS_KEYS[cls] = hit
+    return hit
+
+
+def compare_key(obj, cache):
+    """A tuple key ordering SymPy objects as ``Basic.compare`` does (``cache``: id -> key).
+
+    Same rule, unrolled: class position in ``ordering_of_classes`` (then name),
+    length of ``_hashable_content()``, then the contents in order.
+    """
+    hit = cache.get(id(obj))
+    if hit is not None:
+        return hit[0]
+    content = obj._hashable_content()
+    items = []
+    for x in content:
+        if isinstance(x, Basic):
+            items.append(compare_key(x, cache))
+        elif isinstance(x, frozenset):
+            items.append(compare_key(Basic(*x), cache))
+        else:
+            items.append(x)
+    key = (_class_key(type(obj)), len(content), tuple(items))
+    cache[id(obj)] = (key, obj)   # keep obj alive so its id stays unique during the sort
+    return key

@@ -72,7 +72,7 @@ from ..algebra.convert import kernel_of
 from ..algebra.operators import _check_label
 from ..errors import NotNumericError, OperatorError, QuantumNumberError, StateError
 from ..qnumbers import doubled, is_numeric
-from ..states.kets import _DualState, _dual_pair, components
+from ..states.kets import _DualState, _dual_pair, components, register_state_family
 from .operators import BOSON
 
 __all__ = ["FockKet", "FockBra", "fock_ket", "fock_bra", "vacuum", "occupation", "fock_components",
@@ -224,6 +224,9 @@ _dual_pair(FockKet, FockBra)
 
 def fock_ket(*occupations, modes=("a", "b")):
     """The Fock ket with the given occupations of ``modes`` (default ``("a", "b")``).
+
+    Examples
+    ========
 
     >>> fock_ket(1, 0)
     |1, 0>_(a,b)
@@ -425,3 +428,7 @@ def fock_matrix_element(bra_state, op, ket_state):
     True
     """
     return fock_inner(bra_state, apply_bosons(op, ket_state))
+
+
+# Fock kets reach amalgebra.states.apply / matrix_element / inner / expectation through this hook
+register_state_family((FockKet,), (FockBra,), apply_bosons, fock_inner)

@@ -69,7 +69,7 @@ True
 See Also
 ========
 
-amalgebra.bosons.fock, amalgebra.rotations.small_d
+amalgebra.bosons.fock, amalgebra.rotations.wigner.small_d
 
 References
 ==========
@@ -429,6 +429,9 @@ def schwinger_shifts(expr, modes=("a", "b")):
 def spin_to_fock(state, label="J", modes=("a", "b")):
     r"""Map kets :math:`|j m\rangle_{label}` to Fock kets :math:`|j+m, j-m\rangle`.
 
+    Examples
+    ========
+
     >>> from amalgebra.states import ket
     >>> spin_to_fock(ket("3/2", "-1/2") + 2*ket(0, 0))
     2*|0, 0>_(a,b) + |1, 2>_(a,b)
@@ -451,6 +454,9 @@ def spin_to_fock(state, label="J", modes=("a", "b")):
 def fock_to_spin(state, label="J", modes=("a", "b")):
     r"""Map Fock kets :math:`|n_a, n_b\rangle` to :math:`|j m\rangle_{label}`,
     :math:`j = (n_a + n_b)/2`, :math:`m = (n_a - n_b)/2`.
+
+    Examples
+    ========
 
     >>> from amalgebra.bosons import fock_ket
     >>> fock_to_spin(fock_ket(3, 0))
@@ -553,7 +559,7 @@ def schwinger_small_d(j, mp, m, beta):
     :func:`rotated_creators`; the product is expanded and applied to the
     vacuum by the boson engine, and :math:`d^j_{m'm}` is read off as the
     component along :math:`|j m'\rangle`.  Active rotation, Condon-Shortley
-    phase: the same function as :func:`amalgebra.rotations.small_d`.
+    phase: the same function as :func:`amalgebra.rotations.wigner.small_d`.
 
     Examples
     ========
@@ -564,7 +570,7 @@ def schwinger_small_d(j, mp, m, beta):
     sin(beta/2)
     >>> schwinger_small_d(1, 1, 0, b)
     -sqrt(2)*sin(beta/2)*cos(beta/2)
-    >>> from amalgebra.rotations import small_d
+    >>> from amalgebra.rotations.wigner import small_d
     >>> expand(schwinger_small_d(2, 1, -1, b) - small_d(2, 1, -1, b))
     0
 
@@ -592,7 +598,7 @@ def schwinger_small_d(j, mp, m, beta):
 def schwinger_small_d_matrix(j, beta):
     r"""The matrix :math:`d^j(\beta)` from the boson picture, rows :math:`m' = j, \ldots, -j`, columns :math:`m = j, \ldots, -j`.
 
-    Same ordering as :func:`amalgebra.rotations.small_d_matrix`; one boson
+    Same ordering as :func:`amalgebra.rotations.wigner.small_d_matrix`; one boson
     expansion per column (cached per ``(2j, 2m)``).
 
     >>> from sympy import Symbol

@@ -12,19 +12,20 @@ Correctly rounded floats computed from the exact values
 Caches (bounded LRU on canonical keys under the 72/144/72 symmetries)
     :func:`clear_coupling_caches`, :func:`coupling_cache_info`
     (:mod:`amalgebra.coupling.symmetry`)
-Integer kernels (no SymPy); which 6j kernel runs (compiled GMP or pure Python)
-    :mod:`amalgebra.coupling.kernels`, :func:`kernel_backend`
+Integer kernels (no SymPy); which kernel runs (compiled GMP or pure Python), and the
+once-per-process notice when the compiled kernel is missing
+    :mod:`amalgebra.coupling.kernels`, :func:`kernel_backend`, :class:`KernelFallbackWarning`
 Closed forms for symbolic arguments
     :mod:`amalgebra.coupling.closed_forms`
 Unevaluated symbols (printed in standard notation, evaluated by ``doit()``)
-    :class:`ClebschGordanSymbol`, :class:`ThreeJSymbol`, :class:`SixJSymbol`,
-    :class:`NineJSymbol` (:mod:`amalgebra.coupling.symbols`)
+    :class:`CouplingBracket`, :class:`Coupling3j`, :class:`Coupling6j`,
+    :class:`Coupling9j` (:mod:`amalgebra.coupling.symbols`)
 """
 
 from .coefficients import cg, ninej, racah_w, sixj, threej
 from .floats import cg_float, ninej_float, sixj_float, threej_float
-from .kernels import kernel_backend
-from .symbols import ClebschGordanSymbol, NineJSymbol, SixJSymbol, ThreeJSymbol
+from .kernels import KernelFallbackWarning, kernel_backend
+from .symbols import Coupling3j, Coupling6j, Coupling9j, CouplingBracket
 from .symmetry import clear_coupling_caches, coupling_cache_info
 
 __all__ = [
@@ -40,8 +41,18 @@ __all__ = [
     "clear_coupling_caches",
     "coupling_cache_info",
     "kernel_backend",
-    "ClebschGordanSymbol",
-    "ThreeJSymbol",
-    "SixJSymbol",
-    "NineJSymbol",
+    "KernelFallbackWarning",
+    "CouplingBracket",
+    "Coupling3j",
+    "Coupling6j",
+    "Coupling9j",
 ]
+
+
+def __getattr__(name):
+    # the former names of the coupling-symbol classes, deprecated in 0.2.0
+    from . import symbols
+
+    if name in symbols._RENAMED:
+        return symbols._renamed_class(name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -440,9 +440,9 @@ def ninej_closed_form(j11, j12, j13, j21, j22, j23, j31, j32, j33):
 
     .. math::
 
-        egin{Bmatrix} a & b & e \ c & d & e \ f & f & 0 \end{Bmatrix}
-        = rac{(-1)^{b+c+e+f}}{\sqrt{(2e+1)(2f+1)}}
-          egin{Bmatrix} a & b & e \ d & c & f \end{Bmatrix},
+        \begin{Bmatrix} a & b & e \\ c & d & e \\ f & f & 0 \end{Bmatrix}
+        = \frac{(-1)^{b+c+e+f}}{\sqrt{(2e+1)(2f+1)}}
+          \begin{Bmatrix} a & b & e \\ d & c & f \end{Bmatrix},
 
     with the 6j evaluated as in :func:`sixj_closed_form`.  The two partners
     of the zero must be equal: a numeric difference gives ``S.Zero``, a

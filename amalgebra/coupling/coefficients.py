@@ -26,8 +26,21 @@ closed forms of :mod:`amalgebra.coupling.closed_forms`.
 
 Results are exact SymPy numbers in the canonical form ``r * sqrt(s)`` with
 ``r`` rational and ``s`` a squarefree integer, built without factorising
-``s`` (see :mod:`amalgebra.coupling.kernels`).  Symbols are cached by canonical
-key (:mod:`amalgebra.coupling.symmetry`).
+``s`` (see :mod:`amalgebra.coupling.kernels`), and put together directly from
+the kernel's integers (no generic SymPy arithmetic, no assumption queries; the
+objects are equal, with equal hashes and printing, to ``Rational(n, d)*sqrt(s)``
+built the generic way, which the import checks and the tests pin).  Symbols are
+cached by canonical key (:mod:`amalgebra.coupling.symmetry`); :func:`sixj` reads
+its arguments, checks the triangle rules and builds the key in one step
+(compiled when the extension is built).
+
+Limits.  A coefficient that is not zero by a selection rule is computed only
+for every ``j <= max_coupling_j`` (default 10 000; 9j: ``max_ninej_j``, default
+1000) of :mod:`amalgebra.limits`; above, :class:`~amalgebra.errors.LimitError`
+is raised at once, naming the limit and how to raise it
+(``with amalgebra.limits.input_limits(max_coupling_j=...)``).  Zeros by a
+selection rule and the Clebsch-Gordan coefficients that are exactly 1 (a zero
+``j1`` or ``j2``, or ``J = j1 + j2`` with ``M = +-J``) come back for any size.
 
 Examples
 ========
@@ -55,12 +68,16 @@ References
 .. [2] NIST Digital Library of Mathematical Functions, chapter 34, https://dlmf.nist.gov/34
 """
 
+from fractions import Fraction
+
 from sympy import Add, Expr, Integer, Mul, Pow, Rational, S
 
 from ..errors import NotNumericError
+from ..limits import DEFAULT_LIMITS, check_limit, current_limits
 from ..qnumbers import doubled, doubled_projection, quantum_number, triangle_doubled
-from .kernels import multiply_sqrt
-from .symmetry import ninej_triple, sixj_triple, threej_triple
+from . import kernels
+from .kernels import multiply_sqrt, sixj_key_plain
+from .symmetry import _sixj_canonical, _threej_canonical, ninej_triple, sixj_triple, threej_triple
 
 __all__ = ["cg", "threej", "sixj", "ninej", "racah_w"]
 
@@ -137,82 +154,198 @@ def _dm(tj, value, name, jname):
     return tm
 
 
-def _plain_root(s):
-    """``Pow(Integer(s), 1/2)`` unevaluated, built as ``Pow.__new__(..., evaluate=False)`` builds it.
-
-    SymPy's own constructor spends most of its time on checks that cannot apply
-    to an Integer base and a Half exponent; the result is the same object (a
-    module-import check below falls back to the public constructor otherwise).
-    """
-    obj = Expr.__new__(Pow, Integer(s), S.Half)
-    obj.is_commutative = True
-    return obj
-
-
 def _public_root(s):
     return Pow(Integer(s), S.Half, evaluate=False)
 
 
-def _check_plain_root():
-    try:
-        fast = _plain_root(6)
-        return fast == _public_root(6) and hash(fast) == hash(_public_root(6)) and (fast * fast) == 6
-    except (AttributeError, TypeError):  # pragma: no cover - other SymPy versions
-        return False
+def _public_value(triple):
+    """The generic construction ``Rational(n, d) * sqrt(s)`` (the yardstick of :func:`_to_sympy`)."""
+    n, d, s = triple
+    return Rational(n, d) * Pow(Integer(s), S.Half)
 
 
-_root = _plain_root if _check_plain_root() else _public_root
-_coprime = getattr(Rational, "from_coprime_ints", None) or Rational
+_ROOTS = {}
+_ROOTS_MAX = 1 << 14
 
 
-def _to_sympy(triple):
-    """SymPy number ``n/d*sqrt(s)`` from a canonical triple, never factorising ``s``."""
+def _fast_root(s):
+    """``sqrt(s)`` for a squarefree ``s >= 2``, built as ``Pow(Integer(s), 1/2, evaluate=False)``
+    builds it but without its checks, which cannot apply here; small roots are shared."""
+    root = _ROOTS.get(s)
+    if root is None:
+        base = Expr.__new__(Integer)
+        base.p = s
+        root = Expr.__new__(Pow, base, S.Half)
+        root.is_commutative = True
+        if len(_ROOTS) < _ROOTS_MAX:
+            _ROOTS[s] = root
+    return root
+
+
+_UNITS = {0: S.Zero, 1: S.One, -1: S.NegativeOne}
+_new = object.__new__
+_INTEGER_ASSUMPTIONS = Integer.default_assumptions
+_RATIONAL_ASSUMPTIONS = Rational.default_assumptions
+_MUL_ASSUMPTIONS = Mul.default_assumptions
+
+
+def _fast_value(triple):
+    """SymPy number ``n/d*sqrt(s)`` from a canonical triple, never factorising ``s`` and never
+    running SymPy's generic arithmetic: the Rational, the root and the product are assembled
+    slot by slot exactly as ``Basic.__new__`` assembles them for already canonical parts
+    (``_check_fast_value`` compares with the generic construction at import)."""
+    n, d, s = triple
+    if d == 1:
+        coeff = _UNITS.get(n)
+        if coeff is None:
+            coeff = _new(Integer)
+            coeff._assumptions = _INTEGER_ASSUMPTIONS
+            coeff._mhash = None
+            coeff._args = ()
+            coeff.p = n
+        elif n == 0:
+            return coeff
+    elif n == 1 and d == 2:
+        coeff = S.Half
+    else:
+        coeff = _new(Rational)
+        coeff._assumptions = _RATIONAL_ASSUMPTIONS
+        coeff._mhash = None
+        coeff._args = ()
+        coeff.p = n
+        coeff.q = d
+    if s == 1:
+        return coeff
+    root = _ROOTS.get(s) or _fast_root(s)
+    if n == 1 and d == 1:
+        return root
+    value = _new(Mul)
+    value._assumptions = _MUL_ASSUMPTIONS
+    value._mhash = None
+    value._args = (coeff, root)
+    value.is_commutative = True
+    return value
+
+
+def _slow_value(triple):
     n, d, s = triple
     if n == 0:
         return S.Zero
-    coeff = _coprime(n, d)
+    coeff = Rational(n, d)
     if s == 1:
         return coeff
-    root = _root(s)
+    root = _public_root(s)
     if coeff is S.One:
         return root
     return Mul._from_args((coeff, root), is_commutative=True)
 
 
-def threej_doubled(tj1, tj2, tj3, tm1, tm2, tm3):
-    """Canonical triple ``(n, d, s)`` of a 3j from doubled ints (selection rules applied)."""
+def _check_fast_value():
+    """The direct construction gives SymPy's own objects (same type, args, hash, printing)."""
+    try:
+        for triple in ((0, 1, 1), (1, 1, 1), (-1, 1, 1), (7, 1, 1), (1, 2, 1), (-1, 2, 1), (5, 7, 1),
+                       (1, 1, 6), (-1, 1, 6), (1, 2, 2), (-3, 35, 70), (12, 1, 5)):
+            fast, public = _fast_value(triple), _public_value(triple)
+            if not (type(fast) is type(public) and fast == public and hash(fast) == hash(public)
+                    and fast.args == public.args and str(fast) == str(public)):
+                return False
+        return True
+    except (AttributeError, TypeError):  # pragma: no cover - other SymPy versions
+        return False
+
+
+_to_sympy = _fast_value if _check_fast_value() else _slow_value
+
+_FAST_DOUBLED = 2000
+"""Largest doubled j of the one-step routes (within every default limit)."""
+
+
+def _check_size(tj, names, field, why):
+    """Refuse the largest of the doubled ``tj`` above the limit ``field`` in force (LimitError)."""
+    big = max(tj)
+    limits = current_limits()
+    if big <= _FAST_DOUBLED and limits is DEFAULT_LIMITS:
+        return
+    limit = getattr(limits, field)
+    if limit is None or big <= 2 * limit:
+        return
+    check_limit(field, Fraction(big, 2), names[tj.index(big)], why)
+
+
+_SIX_NAMES = ("j1", "j2", "j3", "j4", "j5", "j6")
+_CG_NAMES = ("j1", "j2", "J")
+_THREEJ_NAMES = ("j1", "j2", "j3")
+_NINE_NAMES = ("j11", "j12", "j13", "j21", "j22", "j23", "j31", "j32", "j33")
+_WHY = "the Racah sum has up to 2j terms of thousands of digits"
+
+
+def _sixj_key_python(*values):
+    """Pure-Python twin of the compiled ``sixj_key``: the sorted key, 0 or None."""
+    tj = _plain_doubled(values)
+    if tj is None or max(tj) > _FAST_DOUBLED:
+        return None
+    return sixj_key_plain(*tj)
+
+
+def _no_key(*values):
+    """Without the compiled module the 3j and CG calls take the validating route directly."""
+    return None
+
+
+if kernels._compiled is not None:
+    kernels._compiled.register_rational(Rational, _FAST_DOUBLED)
+    _sixj_key = kernels._compiled.sixj_key
+    _threej_key = kernels._compiled.threej_key
+    _cg_key = kernels._compiled.cg_key
+else:
+    _sixj_key = _sixj_key_python
+    _threej_key = _cg_key = _no_key
+
+
+def threej_doubled(tj1, tj2, tj3, tm1, tm2, tm3, names=_THREEJ_NAMES):
+    """Canonical triple ``(n, d, s)`` of a 3j from doubled ints (selection rules applied,
+    then the limit ``max_coupling_j``)."""
     if tm1 + tm2 + tm3 or not triangle_doubled(tj1, tj2, tj3):
         return 0, 1, 1
     if abs(tm1) > tj1 or abs(tm2) > tj2 or abs(tm3) > tj3:
         return 0, 1, 1
     if tm1 == 0 and tm2 == 0 and (tj1 + tj2 + tj3) // 2 & 1:
         return 0, 1, 1
+    _check_size((tj1, tj2, tj3), names, "max_coupling_j", _WHY)
     return threej_triple(tj1, tj2, tj3, tm1, tm2, tm3)
 
 
-def sixj_doubled(tj1, tj2, tj3, tj4, tj5, tj6):
-    """Canonical triple of a 6j from doubled ints (triangle rules applied)."""
+def sixj_doubled(tj1, tj2, tj3, tj4, tj5, tj6, names=_SIX_NAMES):
+    """Canonical triple of a 6j from doubled ints (triangle rules applied, then the limit
+    ``max_coupling_j``)."""
     # Each triad (a b c) needs an even sum and |a - b| <= c <= a + b.
     if ((tj1 + tj2 + tj3) & 1 or (tj1 + tj5 + tj6) & 1 or (tj4 + tj2 + tj6) & 1 or (tj4 + tj5 + tj3) & 1
             or not abs(tj1 - tj2) <= tj3 <= tj1 + tj2 or not abs(tj1 - tj5) <= tj6 <= tj1 + tj5
             or not abs(tj4 - tj2) <= tj6 <= tj4 + tj2 or not abs(tj4 - tj5) <= tj3 <= tj4 + tj5):
         return 0, 1, 1
+    _check_size((tj1, tj2, tj3, tj4, tj5, tj6), names, "max_coupling_j", _WHY)
     return sixj_triple(tj1, tj2, tj3, tj4, tj5, tj6)
 
 
 def ninej_doubled(*tj):
-    """Canonical triple of a 9j (row by row) from doubled ints (triangle rules applied)."""
+    """Canonical triple of a 9j (row by row) from doubled ints (triangle rules applied, then
+    the limit ``max_ninej_j``)."""
     for x, y, z in ((0, 1, 2), (3, 4, 5), (6, 7, 8), (0, 3, 6), (1, 4, 7), (2, 5, 8)):
         if not triangle_doubled(tj[x], tj[y], tj[z]):
             return 0, 1, 1
+    _check_size(tj, _NINE_NAMES, "max_ninej_j", "a sum of up to 2j products of three 6j")
     return ninej_triple(*tj)
 
 
 def cg_doubled(tj1, tm1, tj2, tm2, tJ, tM):
-    """Canonical triple of <j1 m1 j2 m2|J M> from doubled ints (selection rules applied)."""
+    """Canonical triple of <j1 m1 j2 m2|J M> from doubled ints (selection rules applied; the
+    coefficients that are exactly 1 for any size; then the limit ``max_coupling_j``)."""
     if tm1 + tm2 != tM:
         return 0, 1, 1
-    triple = threej_doubled(tj1, tj2, tJ, tm1, tm2, -tM)
+    if (triangle_doubled(tj1, tj2, tJ) and abs(tm1) <= tj1 and abs(tm2) <= tj2 and abs(tM) <= tJ
+            and (tj1 == 0 or tj2 == 0 or (tJ == tj1 + tj2 and abs(tM) == tJ))):
+        return 1, 1, 1  # <j1 m1 0 0|j1 m1>, <0 0 j2 m2|j2 m2>, stretched <j1 +-j1 j2 +-j2|J +-J>
+    triple = threej_doubled(tj1, tj2, tJ, tm1, tm2, -tM, _CG_NAMES)
     if triple[0] == 0:
         return triple
     n, d, s = multiply_sqrt(triple, tJ + 1)
@@ -229,9 +362,6 @@ def read_cg(j1, m1, j2, m2, J, M):
     """Validated doubled arguments of a Clebsch-Gordan coefficient."""
     tj1, tj2, tJ = _dj(j1, "j1"), _dj(j2, "j2"), _dj(J, "J")
     return (tj1, _dm(tj1, m1, "m1", "j1"), tj2, _dm(tj2, m2, "m2", "j2"), tJ, _dm(tJ, M, "M", "J"))
-
-
-_SIX_NAMES = ("j1", "j2", "j3", "j4", "j5", "j6")
 
 
 def read_js(values, names=_SIX_NAMES):
@@ -283,6 +413,15 @@ def cg(j1, m1, j2, m2, J, M):
 
     .. [1] Particle Data Group, "Clebsch-Gordan coefficients, spherical harmonics and d functions".
     """
+    key = _cg_key(j1, m1, j2, m2, J, M)
+    if key.__class__ is tuple:
+        if current_limits() is DEFAULT_LIMITS:
+            n, d, s = multiply_sqrt(_threej_canonical(key[0]), key[2] + 1)
+            return _to_sympy((-n, d, s) if key[1] else (n, d, s))
+    elif key == 0:
+        return S.Zero
+    elif key == 1:
+        return S.One
     args = (j1, m1, j2, m2, J, M)
     if _symbolic(args):
         return _closed_form("cg_closed_form")(*args)
@@ -326,6 +465,13 @@ def threej(j1, j2, j3, m1, m2, m3):
 
     .. [1] NIST DLMF 34.2, 34.3, https://dlmf.nist.gov/34.2
     """
+    key = _threej_key(j1, j2, j3, m1, m2, m3)
+    if key:
+        if current_limits() is DEFAULT_LIMITS:
+            n, d, s = _threej_canonical(key[0])
+            return _to_sympy((-n, d, s) if key[1] else (n, d, s))
+    elif key == 0:
+        return S.Zero
     args = (j1, j2, j3, m1, m2, m3)
     if _symbolic(args):
         return _closed_form("threej_closed_form")(*args)
@@ -368,13 +514,16 @@ def sixj(j1, j2, j3, j4, j5, j6):
 
     .. [1] NIST DLMF 34.4, https://dlmf.nist.gov/34.4
     """
+    key = _sixj_key(j1, j2, j3, j4, j5, j6)
+    if key:
+        if current_limits() is DEFAULT_LIMITS:
+            return _to_sympy(_sixj_canonical(key))
+    elif key == 0:
+        return S.Zero
     args = (j1, j2, j3, j4, j5, j6)
-    tj = _plain_doubled(args)
-    if tj is None:
-        if _symbolic(args):
-            return _closed_form("sixj_closed_form")(*args)
-        tj = read_js(args)
-    return _to_sympy(sixj_doubled(*tj))
+    if _symbolic(args):
+        return _closed_form("sixj_closed_form")(*args)
+    return _to_sympy(sixj_doubled(*read_js(args)))
 
 
 def ninej(j11, j12, j13, j21, j22, j23, j31, j32, j33):
@@ -454,7 +603,7 @@ def racah_w(a, b, c, d, e, f):
         phase = S.NegativeOne ** Add(*(quantum_number(v, n, nonnegative=True) for v, n in zip(args[:4], "abcd")))
         return phase * _closed_form("sixj_closed_form")(a, b, e, d, c, f)
     ta, tb, tc, td, te, tf = read_js(args, "abcdef")
-    triple = sixj_doubled(ta, tb, te, td, tc, tf)
+    triple = sixj_doubled(ta, tb, te, td, tc, tf, "abedcf")
     if triple[0] and (ta + tb + tc + td) // 2 & 1:
         triple = (-triple[0], triple[1], triple[2])
     return _to_sympy(triple)

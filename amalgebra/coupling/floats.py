@@ -65,6 +65,13 @@ def triple_to_float(n, d, s):
 def cg_float(j1, m1, j2, m2, J, M):
     """Correctly rounded float of the Clebsch-Gordan coefficient <j1 m1 j2 m2|J M>.
 
+    Examples
+    ========
+
+    >>> from sympy import sqrt
+    >>> cg_float(1, 0, "1/2", "1/2", "3/2", "1/2") == float(sqrt(2) / sqrt(3))   # PDG table 1 x 1/2
+    True
+
     See Also
     ========
 
@@ -75,6 +82,12 @@ def cg_float(j1, m1, j2, m2, J, M):
 
 def threej_float(j1, j2, j3, m1, m2, m3):
     """Correctly rounded float of the 3j symbol (j1 j2 j3; m1 m2 m3).
+
+    Examples
+    ========
+
+    >>> threej_float(1, 1, 0, 0, 0, 0) == -(3 ** -0.5)   # (-1)^(j-m)/sqrt(2j+1), DLMF 34.3.1
+    True
 
     See Also
     ========
@@ -87,6 +100,12 @@ def threej_float(j1, j2, j3, m1, m2, m3):
 def sixj_float(j1, j2, j3, j4, j5, j6):
     """Correctly rounded float of the 6j symbol {j1 j2 j3; j4 j5 j6}.
 
+    Examples
+    ========
+
+    >>> sixj_float(1, 1, 1, 1, 1, 1) == 1 / 6
+    True
+
     See Also
     ========
 
@@ -97,6 +116,12 @@ def sixj_float(j1, j2, j3, j4, j5, j6):
 
 def ninej_float(j11, j12, j13, j21, j22, j23, j31, j32, j33):
     """Correctly rounded float of the 9j symbol, arguments row by row.
+
+    Examples
+    ========
+
+    >>> ninej_float(1, 1, 0, 1, 1, 0, 0, 0, 0) == 1 / 3    # a zero row reduces it to a 6j
+    True
 
     See Also
     ========

@@ -22,15 +22,24 @@ one integer ``P`` (a Horner scheme on the ratio of consecutive terms, no
 division) whose denominator is again a product of factorials.  Only ``P`` stays
 unfactorised, and it stays outside the square root.
 
+Tables.  The primes and the packed vectors of ``n!`` are pure functions of
+``n``; they grow on demand and are kept for the life of the process (clearing
+the *value* caches, :func:`amalgebra.coupling.clear_coupling_caches`, leaves
+them alone).  :func:`clear_tables` releases their memory.  Thread safety: the
+tables live in one object; growth only appends (serialised by a lock) and
+:func:`clear_tables` swaps in a fresh object, so a kernel that took the tables
+at its start keeps a consistent view while other threads grow or clear them.
+
 Compiled kernels: when the optional extension ``amalgebra.coupling._racah6j``
 (C with GMP, built at install time when a compiler and the GMP headers are
-present) is importable, :func:`threej_kernel` and :func:`sixj_kernel_sorted`
-run the same algorithms there for factorial arguments up to its table limit
-(4096); otherwise, and above the limit, the pure-Python
-:func:`threej_kernel_python` and :func:`sixj_kernel_sorted_python` run.  Both
-return identical triples (tested).  :func:`kernel_backend` says which one is
-active; ``AMALGEBRA_PURE_PYTHON=1`` in the environment (read at import)
-disables the compiled kernel.
+present) is importable, :func:`threej_kernel`, :func:`sixj_kernel_sorted` and
+:func:`ninej_kernel` run the same algorithms there for factorial arguments up
+to its table limit (4096); otherwise, and above the limit, the pure-Python
+kernels (``*_python``) run.  Both return identical triples (tested).
+:func:`kernel_backend` says which one is active; ``AMALGEBRA_PURE_PYTHON=1`` in
+the environment (read at import) disables the compiled kernel.  When the
+extension is missing without that request, the first evaluation warns once
+(:class:`KernelFallbackWarning`).
 
 References
 ==========
@@ -43,11 +52,14 @@ import os
 import struct
 import sys
 import threading
+import warnings
 from itertools import accumulate, compress
 from math import gcd, isqrt, prod
 from operator import eq
+from operator import pow as _pow  # a little faster than the builtin in map()
 
 __all__ = [
+    "KernelFallbackWarning",
     "kernel_backend",
     "clear_tables",
     "sqrt_triple",
@@ -57,17 +69,43 @@ __all__ = [
     "sixj_kernel",
     "sixj_kernel_sorted",
     "sixj_kernel_sorted_python",
+    "sixj_key_plain",
     "ninej_kernel",
+    "ninej_kernel_python",
     "sixj_racah_sum",
 ]
 
 
+class KernelFallbackWarning(RuntimeWarning):
+    """The compiled coupling kernel is not available and the pure-Python kernel runs instead
+    (identical results, slower).  Emitted once per process, at the first evaluation.
+
+    Examples
+    ========
+
+    To run on the pure-Python kernel without the notice, set ``AMALGEBRA_PURE_PYTHON=1``
+    before importing amalgebra, or filter the category:
+
+    >>> import warnings
+    >>> from amalgebra.coupling import KernelFallbackWarning
+    >>> warnings.filterwarnings("ignore", category=KernelFallbackWarning)
+    >>> issubclass(KernelFallbackWarning, RuntimeWarning)
+    True
+    """
+
+
+def _pure_python_requested():
+    return os.environ.get("AMALGEBRA_PURE_PYTHON", "").lower() not in ("", "0", "false", "no")
+
+
 def _load_compiled():
-    if os.environ.get("AMALGEBRA_PURE_PYTHON", "").lower() not in ("", "0", "false", "no"):
+    if _pure_python_requested():
         return None
     try:
         from . import _racah6j
     except ImportError:  # not built (no compiler or no GMP headers at install time)
+        return None
+    if not hasattr(_racah6j, "ninej"):  # a stale build of an older C file: rebuild with `pip install -e .`
         return None
     return _racah6j
 
@@ -76,69 +114,103 @@ _compiled = _load_compiled()
 _COMPILED_TOP = _compiled.TOP_LIMIT if _compiled is not None else -1
 # 3j: the largest factorial argument is (tj1 + tj2 + tj3) / 2 + 1 <= TOP_LIMIT
 _COMPILED_TOP_DOUBLED = 2 * _COMPILED_TOP - 1 if _compiled is not None else -1
+# Warn once when the compiled kernel is missing although nobody asked for pure Python.
+_fallback_pending = _compiled is None and not _pure_python_requested()
 
 
 def kernel_backend():
-    """Which 3j/6j kernels run: ``"compiled (GMP)"`` or ``"python"``.
+    """Which 3j/6j/9j kernels run: ``"compiled (GMP)"``, ``"python"`` (asked for by
+    ``AMALGEBRA_PURE_PYTHON=1``) or ``"python (compiled kernel not built)"`` (a fallback).
 
-    Both give identical exact results; the compiled 6j kernel is about seven times
-    faster (``tests/benchmarks/bench_coupling.py`` prints the figures).
+    All give identical exact results; the compiled kernels are several times faster
+    (``tests/benchmarks/bench_coupling.py`` prints the figures).
 
-    >>> kernel_backend() in ("compiled (GMP)", "python")
+    Examples
+    ========
+
+    >>> kernel_backend() in ("compiled (GMP)", "python", "python (compiled kernel not built)")
     True
     """
-    return "python" if _compiled is None else "compiled (GMP)"
+    if _compiled is not None:
+        return "compiled (GMP)"
+    return "python" if _pure_python_requested() else "python (compiled kernel not built)"
+
+
+def warn_fallback_once():
+    """Emit :class:`KernelFallbackWarning` the first time a symbol is evaluated without the
+    compiled kernel (unless ``AMALGEBRA_PURE_PYTHON=1`` asked for that)."""
+    global _fallback_pending
+    if _fallback_pending:
+        _fallback_pending = False
+        warnings.warn("amalgebra: the compiled coupling kernel (amalgebra.coupling._racah6j) is not built, "
+                      "so the pure-Python kernel runs (identical results, several times slower). Install a "
+                      "published wheel, or reinstall with a C compiler and GMP's headers (Debian: libgmp-dev); "
+                      "set AMALGEBRA_PURE_PYTHON=1 to choose the pure-Python kernel without this warning.",
+                      KernelFallbackWarning, stacklevel=3)
 
 
 _FIELD = 32
 _HALF = 1 << (_FIELD - 1)
 
-# Tables grown on demand: primes, index of each prime, smallest prime factor,
-# packed exponent vector of n! for n = 0, 1, ...
-_primes = []
-_prime_index = {}
-_spf = [0, 1]
-_fact_pack = [0, 0]
-_pi = [0, 0]  # _pi[n] = number of primes <= n
-_bias = {}
-# Growth replaces whole tables (each prefix is unchanged, ``_pi`` is swapped in last),
-# so readers in other threads stay consistent; growth itself is serialised.
+
+class _Tables:
+    """Primes, index of each prime, smallest prime factors, prime counts and packed vectors of n!.
+
+    Every list only grows (appends, or a swap of a longer list with the same prefix, ``pi`` last),
+    so a reader that checked its range once stays consistent.
+    """
+
+    __slots__ = ("primes", "index", "spf", "packs", "pi", "legendre")
+
+    def __init__(self):
+        self.primes = []
+        self.index = {}
+        self.spf = [0, 1]
+        self.packs = [0, 0]
+        self.pi = [0, 0]  # pi[n] = number of primes <= n
+        self.legendre = None
+
+
+_tables = _Tables()
 _growth = threading.RLock()
 
 
-def clear_tables():
-    """Forget the prime and factorial tables (they regrow on demand).
+def __getattr__(name):
+    # Read-only views of the current tables, for tests and introspection.
+    field = {"_primes": "primes", "_fact_pack": "packs", "_pi": "pi", "_spf": "spf",
+             "_prime_index": "index"}.get(name)
+    if field is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    return getattr(_tables, field)
 
-    Not to be called while another thread is evaluating a symbol.  Clears the
-    compiled kernel's tables too.
+
+def clear_tables():
+    """Release the prime and factorial tables (they regrow on demand), the compiled kernel's too.
+
+    Safe while other threads evaluate: they keep the tables they started with.
+    Not needed for correctness ever; clearing the value caches does not call it.
     """
+    global _tables
     with _growth:
-        _clear_tables()
+        _tables = _Tables()
+        _masks_cache.clear()
+        _bias.clear()
         if _compiled is not None:
             _compiled.clear()
 
 
-def _clear_tables():
-    _primes.clear()
-    _prime_index.clear()
-    _bias.clear()
-    _masks_cache.clear()
-    del _spf[2:]
-    del _fact_pack[2:]
-    del _pi[2:]
-
-
-def _sieve(limit):
+def _sieve(limit, t=None):
     """Extend the prime tables (smallest prime factors, primes, prime counts) past ``limit``."""
-    if limit < len(_pi):
+    t = t or _tables
+    if limit < len(t.pi):
         return
     with _growth:
-        if limit >= len(_pi):
-            _sieve_locked(limit)
+        if limit >= len(t.pi):
+            _sieve_locked(limit, t)
 
 
-def _sieve_locked(limit):
-    size = max(limit + 1, 2 * len(_pi), 64)
+def _sieve_locked(limit, t):
+    size = max(limit + 1, 2 * len(t.pi), 64)
     root = isqrt(size - 1)
     spf = list(range(size))
     # Slice assignments from the largest sieving prime down, so the smallest prime factor writes last.
@@ -151,30 +223,32 @@ def _sieve_locked(limit):
         spf[p * p::p] = [p] * len(range(p * p, size, p))
     is_prime = list(map(eq, spf, range(size)))
     is_prime[0] = is_prime[1] = False
-    _spf[:] = spf
-    _primes[:] = compress(range(size), is_prime)
-    _prime_index.clear()
-    _prime_index.update(zip(_primes, range(len(_primes))))
-    _pi[:] = list(accumulate(is_prime, initial=0))[1:]
+    primes = list(compress(range(size), is_prime))
+    t.spf = spf
+    t.primes = primes
+    t.index = dict(zip(primes, range(len(primes))))
+    t.pi = list(accumulate(is_prime, initial=0))[1:]
 
 
-def _grow(limit):
-    """Extend the dense table so that ``_fact_pack[n]`` exists for every ``n <= limit``."""
-    if limit < len(_fact_pack):
+def _grow(limit, t=None):
+    """Extend the dense table so that ``packs[n]`` exists for every ``n <= limit``."""
+    t = t or _tables
+    if limit < len(t.packs):
         return
     with _growth:
-        if limit >= len(_fact_pack):
-            _grow_locked(limit)
+        if limit >= len(t.packs):
+            _grow_locked(limit, t)
 
 
-def _grow_locked(limit):
-    target = max(limit + 1, 2 * len(_fact_pack), 64)
-    _sieve(target - 1)
-    spf = _spf
-    index = _prime_index
-    units = [1 << (_FIELD * k) for k in range(_pi[target - 1])]
-    pack = _fact_pack[-1]
-    for n in range(len(_fact_pack), target):
+def _grow_locked(limit, t):
+    target = max(limit + 1, 2 * len(t.packs), 64)
+    _sieve(target - 1, t)
+    spf = t.spf
+    index = t.index
+    units = [1 << (_FIELD * k) for k in range(t.pi[target - 1])]
+    packs = t.packs
+    pack = packs[-1]
+    for n in range(len(packs), target):
         # the vector of n itself: small primes first, so only the last addition is a long one
         m = n
         vector = 0
@@ -183,21 +257,22 @@ def _grow_locked(limit):
             m //= p
             vector += units[index[p]]
         pack += vector
-        _fact_pack.append(pack)
+        packs.append(pack)
 
 
 class _LegendrePacks(dict):
     """Packed factorial vectors computed on demand by Legendre's formula (for large arguments,
     where a dense table would need memory quadratic in the largest argument)."""
 
-    __slots__ = ()
+    __slots__ = ("t",)
 
     def __missing__(self, n):
-        if n < len(_fact_pack):
-            return _fact_pack[n]
-        length = _pi[n]
+        t = self.t
+        if n < len(t.packs):
+            return t.packs[n]
+        length = t.pi[n]
         exponents = []
-        for p in _primes[:length]:
+        for p in t.primes[:length]:
             e, m = 0, n
             while m:
                 m //= p
@@ -212,14 +287,17 @@ DENSE_LIMIT = 4096
 """Largest factorial argument kept in the dense table (about 9 MB at the limit)."""
 
 
-def _packs(top):
-    """Indexable packed vectors of ``n!`` for every ``n <= top``."""
+def _packs(top, t=None):
+    """Indexable packed vectors of ``n!`` for every ``n <= top`` (of the tables ``t``, default current)."""
+    t = t or _tables
     if top < DENSE_LIMIT:
-        if top >= len(_fact_pack):
-            _grow(top)
-        return _fact_pack
-    _sieve(top)
-    return _LegendrePacks()
+        if top >= len(t.packs):
+            _grow(top, t)
+        return t.packs
+    _sieve(top, t)
+    packs = _LegendrePacks()
+    packs.t = t
+    return packs
 
 
 def _unpack(packed, length):
@@ -232,9 +310,12 @@ def _unpack(packed, length):
     return [e - _HALF for e in raw]
 
 
-def _nprimes(limit):
+_bias = {}
+
+
+def _nprimes(limit, t=None):
     """Number of primes <= limit (tables must cover limit)."""
-    return _pi[limit]
+    return (t or _tables).pi[limit]
 
 
 def _masks(length):
@@ -253,7 +334,7 @@ _NATIVE = sys.byteorder
 _UINT32 = next(code for code in "IL" if memoryview(bytes(8)).cast(code).itemsize == 4)
 
 
-def _split_square(packed, limit, factor):
+def _split_square(packed, limit, factor, t=None):
     """Canonical triple of ``factor * sqrt(prod p^e)`` for a packed exponent vector.
 
     ``limit`` bounds every factorial argument that entered ``packed``.  Works
@@ -262,16 +343,18 @@ def _split_square(packed, limit, factor):
     the product of the primes with a set bit), and after subtracting the
     parities and halving, bit 30 of each digit tells the sign of ``e // 2``;
     positive and negative halves are then separated by digit masks and read
-    back as plain byte arrays.
+    back as plain byte arrays.  ``factor`` may carry primes of the vector (the
+    final gcd with the denominator makes the triple canonical in any case).
     """
     if factor == 0:
         return 0, 1, 1
-    length = _pi[limit]
+    t = t or _tables
+    length = t.pi[limit]
     if not length:
         return factor, 1, 1
     low, bias, half = _masks(length)
     size = 4 * length
-    primes = _primes
+    primes = t.primes
     biased = packed + bias
     odd = biased & low
     s = prod(compress(primes, odd.to_bytes(size, "little")[::4]))
@@ -282,11 +365,11 @@ def _split_square(packed, limit, factor):
     ups = upper - sign
     if ups:  # often none: large-j radicands are mostly small
         ups = memoryview(ups.to_bytes(size, _NATIVE)).cast(_UINT32).tolist()
-        n *= prod(map(pow, compress(primes, ups), filter(None, ups)))
+        n *= prod(map(_pow, compress(primes, ups), filter(None, ups)))
     downs = memoryview(((half ^ sign) - (digits ^ upper)).to_bytes(size, _NATIVE)).cast(_UINT32).tolist()
-    den = prod(map(pow, compress(primes, downs), filter(None, downs)))
+    den = prod(map(_pow, compress(primes, downs), filter(None, downs)))
     if den != 1:
-        g = gcd(factor, den)
+        g = gcd(factor, den)  # = gcd(n, den): the primes of ``ups`` and of ``den`` are disjoint
         if g != 1:
             n //= g
             den //= g
@@ -295,10 +378,13 @@ def _split_square(packed, limit, factor):
 
 def _squarefree_small(n):
     """``(u, v)`` with ``n = u^2 v`` and ``v`` squarefree, for a small positive int."""
-    _sieve(n)
+    t = _tables
+    if n >= len(t.spf):
+        _sieve(n, t)
+    spf = t.spf
     u = v = 1
     while n > 1:
-        p = _spf[n]
+        p = spf[n]
         e = 0
         while n % p == 0:
             n //= p
@@ -344,8 +430,9 @@ def threej_kernel(tj1, tj2, tj3, tm1, tm2, tm3):
 
 def threej_kernel_python(tj1, tj2, tj3, tm1, tm2, tm3):
     """The pure-Python :func:`threej_kernel` (the reference for the compiled kernel)."""
+    t = _tables
     big = (tj1 + tj2 + tj3) // 2 + 1
-    fp = _packs(big)
+    fp = _packs(big, t)
     b1 = (tj1 + tj2 - tj3) // 2
     b2 = (tj1 - tm1) // 2
     b3 = (tj2 + tm2) // 2
@@ -368,18 +455,20 @@ def threej_kernel_python(tj1, tj2, tj3, tm1, tm2, tm3):
                      + fp[b1 - kmin] + fp[b2 - kmin] + fp[b3 - kmin]))
     if ((tj1 - tj2 - tm3) // 2 + kmin) & 1:
         p = -p
-    return _split_square(packed, big, p)
+    return _split_square(packed, big, p, t)
 
 
-def sixj_racah_sum(alpha, beta, fp=_fact_pack):
+def sixj_racah_sum(alpha, beta, fp=None):
     """Racah's 6j sum as ``(P, packed)`` meaning ``P * prod p^e``.
 
     ``alpha`` are the four triad sums, ``beta`` the three sums of four j's
     (plain ints); the sum is over ``t`` of
     ``(-1)^t (t+1)! / (prod (t - alpha_i)! prod (beta_j - t)!)``.  ``fp`` holds the
-    packed vectors of ``n!`` up to ``max(beta) + 1`` (the dense table by default,
-    which the caller must have grown).
+    packed vectors of ``n!`` up to ``max(beta) + 1`` (the current dense table by
+    default, which the caller must have grown).
     """
+    if fp is None:
+        fp = _tables.packs
     a1, a2, a3, a4 = alpha
     e1, e2, e3 = beta
     t0 = max(alpha)
@@ -428,8 +517,9 @@ def sixj_kernel_sorted(a1, a2, a3, a4, e1, e2, e3):
 
 def sixj_kernel_sorted_python(a1, a2, a3, a4, e1, e2, e3):
     """The pure-Python :func:`sixj_kernel_sorted` (the reference for the compiled kernel)."""
+    t = _tables
     top = e3 + 1
-    fp = _packs(top)
+    fp = t.packs if top < len(t.packs) else _packs(top, t)
     # Racah sum over t = a4 .. e1 (Horner on the ratio of consecutive terms), as in
     # sixj_racah_sum, written with u = t + 1 and f_j = e_j + 1.
     f1, f2, f3 = e1 + 1, e2 + 1, e3 + 1
@@ -446,13 +536,40 @@ def sixj_kernel_sorted_python(a1, a2, a3, a4, e1, e2, e3):
               - fp[e1 - a1] - fp[e1 - a2] - fp[e1 - a3] - 3 * fp[e1 - a4]
               + fp[e2 - a1] + fp[e2 - a2] + fp[e2 - a3] - fp[e2 - a4]
               + fp[e3 - a1] + fp[e3 - a2] + fp[e3 - a3] - fp[e3 - a4])
-    return _split_square(packed, top, p)
+    return _split_square(packed, top, p, t)
+
+
+def sixj_key_plain(t1, t2, t3, t4, t5, t6):
+    """Sorted key ``(a1, a2, a3, a4, e1, e2, e3)`` of a 6j from doubled ints, or ``0`` when a
+    triangle rule fails (the value is then zero).
+
+    The one-step route of :func:`amalgebra.coupling.sixj`: triangle rules and the key in one
+    pass (the compiled module has the same function, reading SymPy numbers as well).
+
+    >>> sixj_key_plain(2, 2, 2, 2, 2, 2)
+    (3, 3, 3, 3, 4, 4, 4)
+    >>> sixj_key_plain(2, 2, 6, 2, 2, 2)
+    0
+    """
+    s1, s2, s3, s4 = t1 + t2 + t3, t1 + t5 + t6, t4 + t2 + t6, t4 + t5 + t3
+    if ((s1 | s2 | s3 | s4) & 1 or not abs(t1 - t2) <= t3 <= t1 + t2 or not abs(t1 - t5) <= t6 <= t1 + t5
+            or not abs(t4 - t2) <= t6 <= t4 + t2 or not abs(t4 - t5) <= t3 <= t4 + t5):
+        return 0
+    alpha = sorted((s1 >> 1, s2 >> 1, s3 >> 1, s4 >> 1))
+    alpha.extend(sorted(((t1 + t2 + t4 + t5) >> 1, (t2 + t3 + t5 + t6) >> 1, (t3 + t1 + t6 + t4) >> 1)))
+    return tuple(alpha)
 
 
 def _sixj_sums(t1, t2, t3, t4, t5, t6):
     """(alpha, beta) of the 6j {j1 j2 j3; j4 j5 j6} from doubled values."""
     return ((t1 + t2 + t3) // 2, (t1 + t5 + t6) // 2, (t4 + t2 + t6) // 2, (t4 + t5 + t3) // 2), \
         ((t1 + t2 + t4 + t5) // 2, (t2 + t3 + t5 + t6) // 2, (t3 + t1 + t6 + t4) // 2)
+
+
+def _ninej_top(a, b, c, d, e, f, g, h, i, hi):
+    """Largest factorial argument of the 9j sum: a quadruple sum of one of the three 6j (x at its top) + 1."""
+    return max(a + b + f + i, b + c + i + hi, c + a + hi + f, d + e + b + hi, e + f + hi + h,
+               f + d + h + b, g + h + hi + a, h + i + a + d, i + g + d + hi) // 2 + 1
 
 
 def ninej_kernel(a, b, c, d, e, f, g, h, i):
@@ -462,50 +579,108 @@ def ninej_kernel(a, b, c, d, e, f, g, h, i):
     {a b c; f i x} {d e f; b x h} {g h i; x a d}.  In the product of the three
     6j square roots the x-dependent triangle coefficients appear squared, so
     every term is rational times one common root; the terms are brought to a
-    common denominator through their exponent vectors.
+    common denominator through their exponent vectors.  Runs the compiled
+    kernel when it is available and every factorial argument is within its
+    table, else :func:`ninej_kernel_python` (identical triples).
+
+    >>> ninej_kernel(1, 1, 2, 1, 1, 2, 2, 2, 4)      # {1/2 1/2 1; 1/2 1/2 1; 1 1 2} = 1/9
+    (1, 9, 1)
     """
     lo = max(abs(a - i), abs(b - f), abs(d - h))
     hi = min(a + i, b + f, d + h)
     if lo > hi:
         return 0, 1, 1
-    # Largest factorial argument: a quadruple sum of one of the three 6j (x at its top) + 1.
-    top = max(a + b + f + i, b + c + i + hi, c + a + hi + f, d + e + b + hi, e + f + hi + h,
-              f + d + h + b, g + h + hi + a, h + i + a + d, i + g + d + hi) // 2 + 1
-    fp = _packs(top)
-    terms = []
+    if _ninej_top(a, b, c, d, e, f, g, h, i, hi) <= _COMPILED_TOP:
+        return _compiled.ninej(a, b, c, d, e, f, g, h, i)
+    return ninej_kernel_python(a, b, c, d, e, f, g, h, i)
+
+
+def ninej_kernel_python(a, b, c, d, e, f, g, h, i):
+    """The pure-Python :func:`ninej_kernel` (the reference for the compiled kernel).
+
+    The common denominator is found on packed vectors: the digit-wise minimum of
+    two biased vectors (each digit ``e + 2^30`` below ``2^31``) is one subtraction
+    with a guard bit per digit and two masks, so no term is ever unpacked.
+    """
+    lo = max(abs(a - i), abs(b - f), abs(d - h))
+    hi = min(a + i, b + f, d + h)
+    if lo > hi:
+        return 0, 1, 1
+    t = _tables
+    top = _ninej_top(a, b, c, d, e, f, g, h, i, hi)
+    fp = _packs(top, t)
+    length = t.pi[top]
+    guard, bias, full = _min_masks(length)
+    # x-independent parts of the three 6j: {a b c; f i x}, {d e f; b x h}, {g h i; x a d}
+    r1a, r1d, r1e = (a + b + c) >> 1, (f + i + c) >> 1, (a + b + f + i) >> 1
+    r2a, r2b, r2e = (d + e + f) >> 1, (b + e + h) >> 1, (f + d + h + b) >> 1
+    r3a, r3b, r3e = (g + h + i) >> 1, (g + a + d) >> 1, (h + i + a + d) >> 1
+    outer_x = []
+    low = None
     for x in range(lo, hi + 1, 2):
-        p1, s1 = sixj_racah_sum(*_sixj_sums(a, b, c, f, i, x), fp)
+        p1, s1 = _racah(r1a, (a + i + x) >> 1, (f + b + x) >> 1, r1d,
+                        r1e, (b + c + i + x) >> 1, (c + a + x + f) >> 1, fp)
         if p1 == 0:
             continue
-        p2, s2 = sixj_racah_sum(*_sixj_sums(d, e, f, b, x, h), fp)
+        p2, s2 = _racah(r2a, (d + x + h) >> 1, r2b, (b + x + f) >> 1,
+                        (d + e + b + x) >> 1, (e + f + x + h) >> 1, r2e, fp)
         if p2 == 0:
             continue
-        p3, s3 = sixj_racah_sum(*_sixj_sums(g, h, i, x, a, d), fp)
+        p3, s3 = _racah(r3a, r3b, (x + h + d) >> 1, (x + a + i) >> 1,
+                        (g + h + x + a) >> 1, r3e, (i + g + d + x) >> 1, fp)
         if p3 == 0:
             continue
         coeff = (x + 1) * p1 * p2 * p3
         if x & 1:
             coeff = -coeff
-        terms.append((coeff, s1 + s2 + s3 + _delta_pack(fp, a, i, x) + _delta_pack(fp, b, f, x)
-                      + _delta_pack(fp, d, h, x)))
-    if not terms:
+        vector = (s1 + s2 + s3 + _delta_pack(fp, a, i, x) + _delta_pack(fp, b, f, x)
+                  + _delta_pack(fp, d, h, x) + bias)
+        outer_x.append((coeff, vector))
+        if low is None:
+            low = vector
+        else:
+            # digit-wise min: bit 31 of (low + guard - vector) is set where low >= vector
+            mask = (((low + guard - vector) & guard) >> 31) * _DIGIT
+            low = (vector & mask) | (low & (full ^ mask))
+    if not outer_x:
         return 0, 1, 1
-    length = _nprimes(top)
-    primes = _primes[:length]
-    vectors = [_unpack(packed, length) for _, packed in terms]
-    low = [min(column) for column in zip(*vectors)]
+    primes = t.primes
+    size = 4 * length
     total = 0
-    for (coeff, _), vector in zip(terms, vectors):
-        for prime, ex, m in zip(primes, vector, low):
-            if ex != m:
-                coeff *= prime ** (ex - m)
+    for coeff, vector in outer_x:
+        diff = vector - low
+        if diff:
+            ups = memoryview(diff.to_bytes(size, _NATIVE)).cast(_UINT32).tolist()
+            coeff *= prod(map(_pow, compress(primes, ups), filter(None, ups)))
         total += coeff
     if total == 0:
         return 0, 1, 1
-    common = 0
-    for p_index, m in enumerate(low):
-        if m:
-            common += m << (_FIELD * p_index)
     outer = (_delta_pack(fp, a, b, c) + _delta_pack(fp, d, e, f) + _delta_pack(fp, g, h, i)
              + _delta_pack(fp, a, d, g) + _delta_pack(fp, b, e, h) + _delta_pack(fp, c, f, i))
-    return _split_square(2 * common + outer, top, total)
+    return _split_square(2 * (low - bias) + outer, top, total, t)
+
+
+def _racah(a1, a2, a3, a4, e1, e2, e3, fp):
+    """Racah's 6j sum from unsorted triad sums ``a1..a4`` and quadruple sums ``e1..e3``:
+    ``(P, packed)`` as :func:`sixj_racah_sum` returns it."""
+    t0 = max(a1, a2, a3, a4)
+    t1 = min(e1, e2, e3)
+    p = q = 1
+    for u in range(t1, t0, -1):  # u = t + 1
+        q *= (u - a1) * (u - a2) * (u - a3) * (u - a4)
+        p = q - (u + 1) * (e1 + 1 - u) * (e2 + 1 - u) * (e3 + 1 - u) * p
+    packed = (fp[t0 + 1] - fp[t1 - a1] - fp[t1 - a2] - fp[t1 - a3] - fp[t1 - a4]
+              - fp[e1 - t0] - fp[e2 - t0] - fp[e3 - t0])
+    return (-p if t0 & 1 else p), packed
+
+
+_min_masks_cache = {}
+
+
+def _min_masks(length):
+    """``(guard, bias, full)``: bit 31, bit 30 and all 32 bits set in each of ``length`` digits."""
+    masks = _min_masks_cache.get(length)
+    if masks is None:
+        low = int.from_bytes(b"\x01\x00\x00\x00" * length, "little")
+        masks = _min_masks_cache[length] = (low << 31, low << 30, low * _DIGIT)
+    return masks

@@ -9,13 +9,13 @@ numbers.  The classes here keep the symbol itself, as written by the user, so
 that it can be printed in the standard notation (see :mod:`amalgebra.notation`)
 and evaluated later with ``.doit()``:
 
-* :class:`ClebschGordanSymbol` ``(j1, m1, j2, m2, J, M)`` is
+* :class:`CouplingBracket` ``(j1, m1, j2, m2, J, M)`` is
   :math:`\langle j_1 m_1; j_2 m_2 | J M\rangle` (Condon-Shortley phase);
-* :class:`ThreeJSymbol` ``(j1, j2, j3, m1, m2, m3)`` is
+* :class:`Coupling3j` ``(j1, j2, j3, m1, m2, m3)`` is
   :math:`\begin{pmatrix} j_1 & j_2 & j_3 \\ m_1 & m_2 & m_3\end{pmatrix}`;
-* :class:`SixJSymbol` ``(j1, ..., j6)`` is
+* :class:`Coupling6j` ``(j1, ..., j6)`` is
   :math:`\begin{Bmatrix} j_1 & j_2 & j_3 \\ j_4 & j_5 & j_6\end{Bmatrix}`;
-* :class:`NineJSymbol` ``(j11, ..., j33)`` row by row is the 3 x 3 braced array.
+* :class:`Coupling9j` ``(j11, ..., j33)`` row by row is the 3 x 3 braced array.
 
 No symmetry is applied at construction (the symbol stays as written) and
 nothing is evaluated until ``doit()``; ``doit()`` calls the numeric function,
@@ -34,18 +34,18 @@ Examples
 
 >>> from sympy import S, latex
 >>> from amalgebra.coupling import cg, threej
->>> from amalgebra.coupling.symbols import ClebschGordanSymbol, ThreeJSymbol
->>> c = ClebschGordanSymbol(1, 0, S(1)/2, S(1)/2, S(3)/2, S(1)/2)
+>>> from amalgebra.coupling.symbols import CouplingBracket, Coupling3j
+>>> c = CouplingBracket(1, 0, S(1)/2, S(1)/2, S(3)/2, S(1)/2)
 >>> c
-CG(1, 0, 1/2, 1/2 | 3/2, 1/2)
+<1, 0; 1/2, 1/2|3/2, 1/2>
 >>> c.doit()                      # PDG table 1 x 1/2
 sqrt(6)/3
->>> latex(ThreeJSymbol(1, 1, 0, 0, 0, 0))
+>>> latex(Coupling3j(1, 1, 0, 0, 0, 0))
 '\\begin{pmatrix} 1 & 1 & 0 \\\\ 0 & 0 & 0 \\end{pmatrix}'
 
 An identity: a CG coefficient is :math:`(-1)^{j_1-j_2+M}\sqrt{2J+1}` times a 3j symbol.
 
->>> t = ThreeJSymbol(1, S(1)/2, S(3)/2, 0, S(1)/2, -S(1)/2)
+>>> t = Coupling3j(1, S(1)/2, S(3)/2, 0, S(1)/2, -S(1)/2)
 >>> c.doit() == ((-1)**(1 - S(1)/2 + S(1)/2) * 2 * t).doit() != 0
 True
 
@@ -64,16 +64,17 @@ References
 
 from sympy import Expr
 
-from ..notation import NotationHooks
+from ..notation import CodeHooks, NotationHooks
 from ..errors import NotNumericError, ProjectionError
 from ..qnumbers import quantum_number
 from .coefficients import cg, ninej, sixj, threej
+from .floats import cg_float, ninej_float, sixj_float, threej_float
 
-__all__ = ["ClebschGordanSymbol", "ThreeJSymbol", "SixJSymbol", "NineJSymbol"]
+__all__ = ["CouplingBracket", "Coupling3j", "Coupling6j", "Coupling9j"]
 
 
-class _CouplingSymbol(Expr):
-    """Shared behaviour: validated args, deferred evaluation, real value."""
+class _CouplingSymbol(CodeHooks, Expr):
+    """Shared behaviour: validated args, deferred evaluation, real value, lambdify via ``_float``."""
 
     __slots__ = ()
     is_commutative = True
@@ -121,25 +122,25 @@ class _CouplingSymbol(Expr):
         return self
 
 
-class ClebschGordanSymbol(NotationHooks, _CouplingSymbol):
+class CouplingBracket(NotationHooks, _CouplingSymbol):
     r"""The unevaluated Clebsch-Gordan coefficient :math:`\langle j_1 m_1; j_2 m_2 | J M\rangle`.
 
     Explanation
     ===========
 
     Condon-Shortley phase convention, as :func:`~amalgebra.coupling.cg`,
-    which ``doit()`` calls.  Printed ``CG(j1, m1, j2, m2 | J, M)`` (str) and
+    which ``doit()`` calls.  Printed ``<j1, m1; j2, m2|J, M>`` (str) and
     :math:`\left\langle j_1, m_1; j_2, m_2 \middle| J, M \right\rangle` (LaTeX).
 
     Examples
     ========
 
     >>> from sympy import symbols
-    >>> from amalgebra.coupling.symbols import ClebschGordanSymbol
+    >>> from amalgebra.coupling.symbols import CouplingBracket
     >>> j, m = symbols("j m")
-    >>> s = ClebschGordanSymbol(j, m, 0, 0, j, m)
+    >>> s = CouplingBracket(j, m, 0, 0, j, m)
     >>> s, s.func(*s.args) == s
-    (CG(j, m, 0, 0 | j, m), True)
+    (<j, m; 0, 0|j, m>, True)
     >>> s.doit()               # coupling to j2 = 0 is the identity
     1
 
@@ -151,7 +152,7 @@ class ClebschGordanSymbol(NotationHooks, _CouplingSymbol):
     See Also
     ========
 
-    amalgebra.coupling.cg, ThreeJSymbol
+    amalgebra.coupling.cg, Coupling3j
     """
 
     __slots__ = ()
@@ -159,6 +160,7 @@ class ClebschGordanSymbol(NotationHooks, _CouplingSymbol):
     _kinds = (True, False, True, False, True, False)
     _pairs = ((0, 1), (2, 3), (4, 5))
     _evaluate = staticmethod(cg)
+    _float_kernel = staticmethod(cg_float)
 
     _notation_key = "cg_symbol"
 
@@ -169,7 +171,7 @@ class _ArraySymbol(NotationHooks, _CouplingSymbol):
     _notation_key = "array_symbol"
 
 
-class ThreeJSymbol(_ArraySymbol):
+class Coupling3j(_ArraySymbol):
     r"""The unevaluated Wigner 3j symbol :math:`\begin{pmatrix} j_1 & j_2 & j_3 \\ m_1 & m_2 & m_3\end{pmatrix}`.
 
     Explanation
@@ -182,8 +184,8 @@ class ThreeJSymbol(_ArraySymbol):
     Examples
     ========
 
-    >>> from amalgebra.coupling.symbols import ThreeJSymbol
-    >>> t = ThreeJSymbol(1, 1, 0, 0, 0, 0)
+    >>> from amalgebra.coupling.symbols import Coupling3j
+    >>> t = Coupling3j(1, 1, 0, 0, 0, 0)
     >>> t, t.doit()            # (-1)^(j-m)/sqrt(2j+1), DLMF 34.3.1
     (3j(1, 1, 0; 0, 0, 0), -sqrt(3)/3)
 
@@ -195,7 +197,7 @@ class ThreeJSymbol(_ArraySymbol):
     See Also
     ========
 
-    amalgebra.coupling.threej, ClebschGordanSymbol
+    amalgebra.coupling.threej, CouplingBracket
     """
 
     __slots__ = ()
@@ -203,11 +205,12 @@ class ThreeJSymbol(_ArraySymbol):
     _kinds = (True, True, True, False, False, False)
     _pairs = ((0, 3), (1, 4), (2, 5))
     _evaluate = staticmethod(threej)
+    _float_kernel = staticmethod(threej_float)
     _notation_prefix = "3j"
     _notation_delims = ("(", ")")
 
 
-class SixJSymbol(_ArraySymbol):
+class Coupling6j(_ArraySymbol):
     r"""The unevaluated Wigner 6j symbol :math:`\begin{Bmatrix} j_1 & j_2 & j_3 \\ j_4 & j_5 & j_6\end{Bmatrix}`.
 
     Explanation
@@ -220,8 +223,8 @@ class SixJSymbol(_ArraySymbol):
     Examples
     ========
 
-    >>> from amalgebra.coupling.symbols import SixJSymbol
-    >>> s = SixJSymbol(1, 1, 1, 1, 1, 1)
+    >>> from amalgebra.coupling.symbols import Coupling6j
+    >>> s = Coupling6j(1, 1, 1, 1, 1, 1)
     >>> s, s.doit()            # 1/6, from memory
     (6j{1, 1, 1; 1, 1, 1}, 1/6)
 
@@ -233,18 +236,19 @@ class SixJSymbol(_ArraySymbol):
     See Also
     ========
 
-    amalgebra.coupling.sixj, NineJSymbol
+    amalgebra.coupling.sixj, Coupling9j
     """
 
     __slots__ = ()
     _names = ("j1", "j2", "j3", "j4", "j5", "j6")
     _kinds = (True,) * 6
     _evaluate = staticmethod(sixj)
+    _float_kernel = staticmethod(sixj_float)
     _notation_prefix = "6j"
     _notation_delims = ("{", "}")
 
 
-class NineJSymbol(_ArraySymbol):
+class Coupling9j(_ArraySymbol):
     r"""The unevaluated Wigner 9j symbol, arguments row by row, a braced 3 x 3 array.
 
     Explanation
@@ -257,8 +261,8 @@ class NineJSymbol(_ArraySymbol):
     Examples
     ========
 
-    >>> from amalgebra.coupling.symbols import NineJSymbol
-    >>> n = NineJSymbol(1, 1, 0, 1, 1, 0, 0, 0, 0)
+    >>> from amalgebra.coupling.symbols import Coupling9j
+    >>> n = Coupling9j(1, 1, 0, 1, 1, 0, 0, 0, 0)
     >>> n, n.doit()            # 9j with a zero row reduces to a 6j: 1/3
     (9j{1, 1, 0; 1, 1, 0; 0, 0, 0}, 1/3)
 
@@ -270,12 +274,35 @@ class NineJSymbol(_ArraySymbol):
     See Also
     ========
 
-    amalgebra.coupling.ninej, SixJSymbol
+    amalgebra.coupling.ninej, Coupling6j
     """
 
     __slots__ = ()
     _names = ("j11", "j12", "j13", "j21", "j22", "j23", "j31", "j32", "j33")
     _kinds = (True,) * 9
     _evaluate = staticmethod(ninej)
+    _float_kernel = staticmethod(ninej_float)
     _notation_prefix = "9j"
     _notation_delims = ("{", "}")
+
+
+#: The former class names (deprecated in amalgebra 0.2.0: they coincided with another
+#: system's built-in function names) and their replacements; old pickles load through them.
+_RENAMED = {"ClebschGordanSymbol": "CouplingBracket", "ThreeJSymbol": "Coupling3j",
+           "SixJSymbol": "Coupling6j", "NineJSymbol": "Coupling9j"}
+
+
+def _renamed_class(name, stacklevel=3):
+    """The class behind a former name, with a ``DeprecationWarning`` naming the replacement."""
+    import warnings
+
+    new = _RENAMED[name]
+    warnings.warn(f"{name} is deprecated since amalgebra 0.2.0; use {new} (the same class)",
+                  DeprecationWarning, stacklevel=stacklevel)
+    return globals()[new]
+
+
+def __getattr__(name):
+    if name in _RENAMED:
+        return _renamed_class(name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -27,6 +27,13 @@ first row (at most 12, usually 4).
 Caches are bounded LRU caches (``functools.lru_cache``) of canonical
 triples ``(n, d, s)`` (meaning ``n/d*sqrt(s)``): 3j and 6j hold at most
 :data:`CACHE_SIZE` entries each, 9j at most :data:`NINEJ_CACHE_SIZE`.
+The 6j cache is keyed by the flat sorted 7-tuple ``(a1, a2, a3, a4, e1, e2, e3)``.
+
+Thread safety: the caches are ``functools.lru_cache`` objects (safe to read, fill
+and clear from several threads); the kernels' prime and factorial tables are
+kept across :func:`clear_coupling_caches` and grow under a lock
+(:mod:`amalgebra.coupling.kernels`), so clearing while other threads evaluate
+never changes a value.
 
 Examples
 ========
@@ -48,7 +55,8 @@ References
 
 from functools import lru_cache
 
-from .kernels import clear_tables, ninej_kernel, sixj_kernel_sorted, threej_kernel
+from . import kernels
+from .kernels import ninej_kernel, sixj_kernel_sorted, threej_kernel
 
 __all__ = [
     "CACHE_SIZE",
@@ -147,6 +155,8 @@ def ninej_key(*tj):
 
 @lru_cache(maxsize=CACHE_SIZE)
 def _threej_canonical(key):
+    if kernels._fallback_pending:
+        kernels.warn_fallback_once()
     low, p, q, u, v = key
     big = p + q + u + v - low
     # Regge square [[low, J-p-u, J-q-v], [J-p-q, p, q], [J-u-v, u, v]]; a column is
@@ -154,13 +164,25 @@ def _threej_canonical(key):
     return threej_kernel(2 * big - p - q - u - v, p + u, q + v, p + q - u - v, u - p, v - q)
 
 
-@lru_cache(maxsize=CACHE_SIZE)
-def _sixj_canonical(key):
-    return sixj_kernel_sorted(*key[0], *key[1])
+def _sixj_python(key):
+    if kernels._fallback_pending:
+        kernels.warn_fallback_once()
+    return sixj_kernel_sorted(*key)
+
+
+if kernels._compiled is not None:
+    # the cache wraps the compiled function directly (no Python frame on a miss); it calls the
+    # pure-Python kernel itself beyond its table
+    kernels._compiled.register_python_sixj(kernels.sixj_kernel_sorted_python)
+    _sixj_canonical = lru_cache(maxsize=CACHE_SIZE)(kernels._compiled.sixj_from_key)
+else:
+    _sixj_canonical = lru_cache(maxsize=CACHE_SIZE)(_sixj_python)
 
 
 @lru_cache(maxsize=NINEJ_CACHE_SIZE)
 def _ninej_canonical(key):
+    if kernels._fallback_pending:
+        kernels.warn_fallback_once()
     (a, d, g), (b, e, h), (c, f, i) = key
     return ninej_kernel(a, b, c, d, e, f, g, h, i)
 
@@ -177,7 +199,8 @@ def threej_triple(tj1, tj2, tj3, tm1, tm2, tm3):
 
 def sixj_triple(tj1, tj2, tj3, tj4, tj5, tj6):
     """Canonical triple of a 6j (doubled arguments, triangle rules already checked)."""
-    return _sixj_canonical(sixj_key(tj1, tj2, tj3, tj4, tj5, tj6))
+    alpha, beta = sixj_key(tj1, tj2, tj3, tj4, tj5, tj6)
+    return _sixj_canonical(alpha + beta)
 
 
 def ninej_triple(*tj):
@@ -187,7 +210,14 @@ def ninej_triple(*tj):
 
 
 def clear_coupling_caches():
-    """Empty the 3j, 6j and 9j result caches and the prime/factorial tables.
+    """Empty the 3j, 6j and 9j result caches.
+
+    The kernels' prime and factorial tables are pure functions of their size and
+    are kept (``kernels.clear_tables()`` releases them).  Safe to call while other
+    threads evaluate symbols: they get the same values, computed again on a miss.
+
+    Examples
+    ========
 
     >>> from amalgebra.coupling import sixj, clear_coupling_caches, coupling_cache_info
     >>> _ = sixj(1, 1, 1, 1, 1, 1)
@@ -198,12 +228,14 @@ def clear_coupling_caches():
     _threej_canonical.cache_clear()
     _sixj_canonical.cache_clear()
     _ninej_canonical.cache_clear()
-    clear_tables()
 
 
 def coupling_cache_info():
     """Cache statistics: a dict ``{"3j", "6j", "9j"}`` of ``functools`` ``CacheInfo``
     (hits, misses, maxsize, currsize).
+
+    Examples
+    ========
 
     >>> from amalgebra.coupling import threej, clear_coupling_caches, coupling_cache_info
     >>> clear_coupling_caches()

@@ -9,7 +9,9 @@ A group's derivations become a test suite that typesets itself:
 * :mod:`~amalgebra.derivations.store` -- the stored-results text format (data, never
   code);
 * :mod:`~amalgebra.derivations.regression` -- identical / reprinted / changed /
-  unrecorded / stale;
+  unrecorded / stale / undecided / unreadable;
+* :mod:`~amalgebra.derivations.budget` -- every equality decision on a stored value
+  within a time and size budget (exact normal form, then a seeded numeric test);
 * :mod:`~amalgebra.derivations.latex` -- ``align`` environments and a standalone report;
 * :mod:`~amalgebra.derivations.runner` -- running, checking and re-recording a folder.
 
@@ -26,18 +28,20 @@ Examples
 True
 """
 
+from .budget import Budget, Decision, decide_equal
 from .checks import Check, check_equality
 from .latex import derivation_latex, report_latex
 from .record import Derivation, DerivationRecord, StepRecord, Steps, derivation
-from .regression import Comparison, compare_record, compare_value
+from .regression import Comparison, compare_entry, compare_record, compare_value
 from .runner import FileOutcome, RunOutcome, discover, record_folder, run_folder
-from .store import load_results, results_path, write_results
+from .store import StoredEntry, StoredResults, load_results, results_path, write_results
 
 __all__ = [
     "derivation", "Derivation", "Steps", "StepRecord", "DerivationRecord",
     "Check", "check_equality",
     "derivation_latex", "report_latex",
-    "Comparison", "compare_value", "compare_record",
+    "Comparison", "compare_value", "compare_entry", "compare_record",
+    "Budget", "Decision", "decide_equal",
     "FileOutcome", "RunOutcome", "discover", "run_folder", "record_folder",
-    "load_results", "write_results", "results_path",
+    "load_results", "write_results", "results_path", "StoredEntry", "StoredResults",
 ]

@@ -3,16 +3,26 @@ r"""LaTeX rendering of derivation records: one ``align`` per derivation, one doc
 Explanation
 ===========
 
-A derivation renders as an amsmath ``align`` environment, one line per step::
+A derivation renders as an amsmath ``align`` environment, one tagged row per
+step as the author wrote it, and under it, in small type, the justification and
+the engine's verdict of each tagged step::
 
-    lhs &= rhs && \text{justification} \\
-        &= rhs' && \text{next justification}
+    lhs &= rhs \tag{a} \\
+        &= rhs' \tag{b}
 
-(a step stated with ``d.then`` continues the previous line's chain).  Expressions are
-printed by ``sympy.latex`` (so operators print through their own ``_latex`` hooks).
-Justifications and descriptions (the derivation's docstring) are plain text, escaped
-for LaTeX, except that balanced ``$...$`` segments pass through as math.  Only amsmath constructs that KaTeX also accepts are used, and the
-output is the same under any ``PYTHONHASHSEED`` (no dates, no set iteration).
+    (a) justification -- exact (normal form)
+
+(a step stated with ``d.then`` continues the previous line's chain).  Long
+equations are broken across rows by :mod:`amalgebra.derivations.latex_layout`
+(a long left side on its own row, a sum at its terms, ``c \Bigl(...\Bigr)``);
+a matrix wider than a row is shown as the list of its nonzero entries (with a
+basis legend when the value carries a basis, e.g. an ``OperatorMatrix``).
+Regression statuses of stored results are gathered in a summary table at the
+end of the report.  Expressions are printed by ``sympy.latex`` (operators print
+through their own ``_latex`` hooks).  Justifications and descriptions are plain
+text, escaped for LaTeX, except that balanced ``$...$`` segments pass through as
+math.  Only amsmath constructs that KaTeX also accepts are used (``\tag``,
+``\notag``, ``\Bigl``), and the output is the same under any ``PYTHONHASHSEED``.
 
 Examples
 ========
@@ -26,11 +36,15 @@ Examples
 ...     d.step("expand", (x + 1)**2, x**2 + 2*x + 1, "binomial theorem, 100% sure")
 >>> print(derivation_latex(square.run()))
 \begin{align}
-\left(x + 1\right)^{2} &= x^{2} + 2 x + 1 && \text{binomial theorem, 100\% sure}
+\left(x + 1\right)^{2} &= x^{2} + 2 x + 1 \tag{a}
 \end{align}
+\begin{flushleft}\small
+\hangindent=2em\hangafter=1 (a)~binomial theorem, 100\% sure --- \textit{exact (normal form)}\par
+\end{flushleft}
 """
 
-__all__ = ["escape_text", "text_with_math", "justification_latex", "derivation_latex", "report_latex"]
+__all__ = ["escape_text", "text_with_math", "justification_latex", "derivation_latex", "report_latex",
+           "value_rows", "step_tag", "prose_latex", "summary_latex"]
 
 _ESCAPES = {
     "\\": r"\textbackslash{}", "{": r"\{", "}": r"\}", "#": r"\#", "$": r"\$", "%": r"\%",
@@ -75,47 +89,277 @@ def text_with_math(text):
     return "".join(escape_text(p) if i % 2 == 0 else f"${p}$" for i, p in enumerate(pieces))
 
 
-def _tex(expr):
-    from sympy import latex
+from sympy import latex
+from sympy.matrices import MatrixBase
 
+from .latex_layout import ROW_WIDTH, expression_rows, visible_width
+
+#: A left side wider than this goes on its own row (the ``align`` column it sits in
+#: widens every row of the environment).
+LEFT_WIDTH = 16
+#: Separator of the entries a row of a matrix's entry list holds.
+_ENTRY_GAP = r",\quad "
+
+
+def _tex(expr):
     return latex(expr)
 
 
+def step_tag(k):
+    """The tag of the ``k``-th step (0-based): ``a`` ... ``z``, then ``aa``, ``ab`` ...
+
+    >>> from amalgebra.derivations.latex import step_tag
+    >>> step_tag(0), step_tag(25), step_tag(26)
+    ('a', 'z', 'aa')
+    """
+    letters = "abcdefghijklmnopqrstuvwxyz"
+    return letters[k] if k < 26 else step_tag(k // 26 - 1) + letters[k % 26]
+
+
+def _matrix_parts(value):
+    """``(matrix, basis)`` of a matrix-like value (``basis`` may be ``None``), else ``None``.
+
+    A value with ``.matrix`` and ``.basis`` (``OperatorMatrix``, ``HamiltonianMatrix``
+    of :mod:`amalgebra.states.hamiltonian`) gives its basis for the legend.
+    """
+    if isinstance(value, MatrixBase):
+        return value, None
+    matrix = getattr(value, "matrix", None)
+    if isinstance(matrix, MatrixBase):
+        return matrix, getattr(value, "basis", None)
+    return None
+
+
+def _basis_legend(basis, width):
+    """Rows ``1: |...>, 2: |...>`` naming the basis states of rows and columns."""
+    items = [rf"{i + 1}\colon {_tex(state)}" for i, state in enumerate(basis)]
+    return _pack_items([r"\text{basis (rows and columns):}"] + items, width)
+
+
+def _pack_items(items, width):
+    rows, current, used = [], [], 0.0
+    for item in items:
+        w = visible_width(item) + 3
+        if current and used + w > width:
+            rows.append(_ENTRY_GAP.join(current) + ",")
+            current, used = [], 0.0
+        current.append(item)
+        used += w
+    if current:
+        rows.append(_ENTRY_GAP.join(current))
+    return rows
+
+
+def _matrix_rows(matrix, basis, width):
+    """Rows of a matrix: whole when it fits, else its nonzero entries ``M_{i,j} = x``."""
+    tex = _tex(matrix)
+    if visible_width(tex) <= width and basis is None:
+        return [tex]
+    n, m = matrix.shape
+    rows = [rf"\text{{{n} $\times$ {m} matrix, nonzero entries (row, column):}}"]
+    items = []
+    for i in range(n):
+        for j in range(m):
+            if matrix[i, j] != 0:
+                head = rf"M_{{{i + 1},{j + 1}}} = "
+                parts = expression_rows(matrix[i, j], width - 2, visible_width(head))
+                if len(parts) == 1:
+                    items.append(head + parts[0])
+                else:  # a long entry: its own rows
+                    rows.extend(_pack_items(items, width) if items else [])
+                    items = []
+                    rows.extend([head + parts[0]] + parts[1:])
+    rows.extend(_pack_items(items, width) if items else [r"\text{(all entries zero)}"])
+    if basis is not None:
+        rows.extend(_basis_legend(basis, width))
+    return rows
+
+
+def value_rows(value, width=ROW_WIDTH, lead_width=0.0):
+    r"""Rows of the LaTeX of ``value`` (an expression or a matrix), each about ``width`` wide.
+
+    >>> from sympy import Matrix, symbols
+    >>> from amalgebra.derivations.latex import value_rows
+    >>> value_rows(Matrix([[1, 0], [0, symbols("a")]]))
+    ['\\left[\\begin{matrix}1 & 0\\\\0 & a\\end{matrix}\\right]']
+    >>> rows = value_rows(Matrix.diag(*symbols("a0:30")), 40)
+    >>> rows[0], rows[1]
+    ('\\text{30 $\\times$ 30 matrix, nonzero entries (row, column):}', 'M_{1,1} = a_{0},\\quad M_{2,2} = a_{1},\\quad M_{3,3} = a_{2},\\quad M_{4,4} = a_{3},')
+    """
+    parts = _matrix_parts(value)
+    if parts is not None:
+        return _matrix_rows(parts[0], parts[1], width)
+    return expression_rows(value, width, lead_width)
+
+
+def _step_rows(step, width):
+    """``align`` rows (without tags) of one step; a left side wider than ``LEFT_WIDTH`` gets its own rows."""
+    rhs_lead = 2.0  # "= "
+    if step.continued:
+        rhs = value_rows(step.rhs, width, rhs_lead)
+        return [f"&= {rhs[0]}"] + [f"&{r}" for r in rhs[1:]]
+    lhs_tex = _tex(step.lhs)
+    if visible_width(lhs_tex) > LEFT_WIDTH or _matrix_parts(step.lhs) is not None:
+        lhs = value_rows(step.lhs, width)
+        rhs = value_rows(step.rhs, width, rhs_lead)
+        return ([f"&{r}" for r in lhs] + [f"&= {rhs[0]}"] + [f"&{r}" for r in rhs[1:]])
+    rhs = value_rows(step.rhs, width - visible_width(lhs_tex), rhs_lead)
+    return [f"{lhs_tex} &= {rhs[0]}"] + [f"&{r}" for r in rhs[1:]]
+
+
+def _align(groups):
+    """An ``align`` of row groups ``[(rows, tag), ...]``: the tag on a group's last row."""
+    lines, previous = [], 1
+    for rows, tag in groups:
+        if lines and max(previous, len(rows)) > 1:
+            lines[-1] += r" \\[0.6ex]"  # a gap around a step set on several rows
+        else:
+            lines[-1:] = [line + r" \\" for line in lines[-1:]]
+        for k, row in enumerate(rows):
+            last = k == len(rows) - 1
+            line = row + (rf" \tag{{{tag}}}" if last and tag else r" \notag")
+            lines.append(line if last else line + r" \\")
+        previous = len(rows)
+    return "\\begin{align}\n" + "\n".join(lines) + "\n\\end{align}"
+
+
+def _notes(items):
+    """Small-type paragraphs ``(a) text`` with a hanging indent (``items``: ``(tag, latex)``)."""
+    lines = [r"\begin{flushleft}\small"]
+    lines += [rf"\hangindent=2em\hangafter=1 ({tag})~{text}\par" for tag, text in items]
+    lines.append(r"\end{flushleft}")
+    return "\n".join(lines)
+
+
 def derivation_latex(record):
-    """The ``align`` environment of one derivation record (its steps so far)."""
-    rows = []
-    for step in record.steps:
-        lhs = "" if step.continued else _tex(step.lhs) + " "
-        rows.append(f"{lhs}&= {_tex(step.rhs)} && {justification_latex(step.because)}")
-    if not rows:
+    """The ``align`` of one derivation record (its steps so far), then the justifications."""
+    if not record.steps:
         return ""
-    return "\\begin{align}\n" + " \\\\\n".join(rows) + "\n\\end{align}"
+    groups, notes = [], []
+    width = ROW_WIDTH
+    for k, step in enumerate(record.steps):
+        tag = step_tag(k)
+        groups.append((_step_rows(step, width), tag))
+        notes.append((tag, rf"{text_with_math(step.because)} --- \textit{{{escape_text(step.status)}}}"))
+    return _align(groups) + "\n" + _notes(notes)
 
 
-def _record_block(record, comparisons):
+def _results_block(record):
+    groups = []
+    for name, value in record.results.items():
+        label = rf"\text{{{escape_text(name)}}}"
+        if visible_width(label) > LEFT_WIDTH:
+            rows = [f"&{label}:"] + [rf"&\quad {r}" for r in value_rows(value, ROW_WIDTH - 2)]
+        else:
+            rest = value_rows(value, ROW_WIDTH - visible_width(label) - 1)
+            rows = [rf"{label} &: {rest[0]}"] + [f"&{r}" for r in rest[1:]]
+        groups.append((rows, None))
+    return _align(groups).replace("{align}", "{align*}").replace(r" \notag", "")
+
+
+#: Inline math (of a description) wider than this is set as a display.
+INLINE_WIDTH = 30
+
+
+def _top_level_tokens(tex):
+    """Math ``tex`` cut at its top-level spaces (outside braces and environments)."""
+    tokens, depth, start = [], 0, 0
+    for i, ch in enumerate(tex):
+        if ch in "{}" and tex[i - 1:i] == "\\":
+            continue
+        depth += {"{": 1, "}": -1}.get(ch, 0)
+        if ch == " " and depth == 0 and tex.count(r"\begin", 0, i) == tex.count(r"\end", 0, i):
+            tokens.append(tex[start:i])
+            start = i + 1
+    tokens.append(tex[start:])
+    return [t for t in tokens if t]
+
+
+def _display(tex):
+    r"""A display of math ``tex``; wider than a row, it breaks at top-level spaces.
+
+    An operator (``+``, ``-``, ``=``) stays with what follows it; continuation
+    rows start ``\quad`` (``=`` rows align on the sign).
+    """
+    if visible_width(tex) <= ROW_WIDTH:
+        return "\n\\[ %s \\]\n" % tex
+    pieces = []
+    for token in _top_level_tokens(tex):
+        if pieces and pieces[-1] in ("+", "-", "=", r"\pm", r"\leq", r"\geq"):
+            pieces[-1] += " " + token
+        else:
+            pieces.append(token)
+    rows, current = [], ""
+    for piece in pieces:
+        if current and visible_width(current + " " + piece) > ROW_WIDTH - 2:
+            rows.append(current)
+            current = piece
+        else:
+            current = f"{current} {piece}" if current else piece
+    rows.append(current)
+    out = [f"&{rows[0]}"] + [f"&{r}" if r.startswith("=") else rf"&\quad {r}" for r in rows[1:]]
+    return "\n\\begin{align*}\n" + " \\\\\n".join(out) + "\n\\end{align*}\n"
+
+
+def prose_latex(text):
+    r"""Text with ``$...$`` math for a description: wide math becomes a display.
+
+    >>> from amalgebra.derivations.latex import prose_latex
+    >>> prose_latex("so $x = 1$ holds")
+    'so $x = 1$ holds'
+    >>> tex = prose_latex("so $" + " + ".join("x_{%d}" % i for i in range(40)) + "$ holds")
+    >>> tex.startswith("so \n\\begin{align*}\n&x_{0} + x_{1}") and tex.endswith("\\end{align*}\n holds")
+    True
+    """
+    pieces = text.split("$")
+    if len(pieces) % 2 == 0:  # unbalanced dollars: all text
+        return escape_text(text)
+    out = []
+    for i, piece in enumerate(pieces):
+        if i % 2 == 0:
+            out.append(escape_text(piece))
+        elif visible_width(piece) > INLINE_WIDTH:
+            out.append(_display(piece))
+        else:
+            out.append(f"${piece}$")
+    return "".join(out)
+
+
+def _record_block(record, comparisons=()):
     lines = [rf"\subsection{{{text_with_math(record.title)}}}",
              rf"\label{{deriv:{record.name}}}"]
     if record.description:
-        lines.append(text_with_math(record.description))
+        lines.append(prose_latex(record.description))
     lines.append("")
     body = derivation_latex(record)
     if body:
         lines.append(body)
-    if record.steps:
-        lines.append(r"\begin{itemize}")
-        for step in record.steps:
-            lines.append(rf"\item \texttt{{{escape_text(step.name)}}}: {escape_text(step.status)}")
-        lines.append(r"\end{itemize}")
     if record.error is not None:
         lines.append(r"\paragraph{Failed.} " + escape_text(str(record.error).splitlines()[0]))
     if record.results:
         lines.append(r"\paragraph{Results.}")
-        status = {c.result: c.status for c in comparisons if c.derivation == record.name}
-        rows = []
-        for name, expr in record.results.items():
-            tag = f" ({status[name]})" if name in status else ""
-            rows.append(rf"\text{{{escape_text(name + tag)}:}} &\quad {_tex(expr)}")
-        lines.append("\\begin{align*}\n" + " \\\\\n".join(rows) + "\n\\end{align*}")
+        lines.append(_results_block(record))
+    return "\n".join(lines)
+
+
+def _breakable_tt(name):
+    r"""``\texttt`` of a name that may break after underscores (long names in table cells)."""
+    return r"\texttt{%s}" % escape_text(name).replace(r"\_", r"\_\allowbreak{}")
+
+
+def summary_latex(files):
+    """The regression summary: one table row per stored result (derivation, result, status)."""
+    rows = [(c.derivation, c.result, c.status) for f in files for c in f.comparisons]
+    lines = [r"\section*{Regression summary}"]
+    if not rows:
+        lines.append("No stored results were compared.")
+        return "\n".join(lines)
+    lines.append(r"\begin{tabular}{p{0.40\textwidth}p{0.36\textwidth}p{0.15\textwidth}}")
+    lines.append(r"\textbf{derivation} & \textbf{result} & \textbf{status}\tabularnewline\hline")
+    for derivation_name, result, status in rows:
+        lines.append(rf"\raggedright {_breakable_tt(derivation_name)} & \raggedright "
+                     rf"{_breakable_tt(result)} & {escape_text(status)}\tabularnewline")
+    lines.append(r"\end{tabular}")
     return "\n".join(lines)
 
 
@@ -124,17 +368,19 @@ def report_latex(files, title="Derivations"):
 
     ``files`` is a sequence of :class:`~amalgebra.derivations.runner.FileOutcome`
     (anything with ``name``, ``records``, ``comparisons`` and ``load_error``).
-    Compiles with ``pdflatex`` using only ``amsmath``.
+    Compiles with ``pdflatex`` using only ``amsmath``; the regression statuses
+    of stored results are in a summary table at the end.
     """
     parts = [r"\documentclass{article}", r"\usepackage{amsmath}",
              r"\allowdisplaybreaks", r"\begin{document}",
              rf"\section*{{{escape_text(title)}}}"]
     for f in files:
-        parts.append(rf"\section{{\texttt{{{escape_text(f.name)}}}}}")
+        parts.append(rf"\section{{{_breakable_tt(f.name)}}}")
         if f.load_error is not None:
             parts.append(r"\paragraph{Could not be loaded.} "
                          + escape_text(str(f.load_error).splitlines()[0]))
         for record in f.records:
             parts.append(_record_block(record, f.comparisons))
+    parts.append(summary_latex(files))
     parts.append(r"\end{document}")
     return "\n".join(parts) + "\n"

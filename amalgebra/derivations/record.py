@@ -35,8 +35,8 @@ Examples
 >>> rec = double_angle.run()
 >>> rec.ok, [s.name for s in rec.steps], list(rec.results)
 (True, ['expand', 'square'], ['doubled'])
->>> rec.steps[0].status
-'exact (simplify)'
+>>> rec.steps[0].exact                     # proved, not only sampled
+True
 
 See Also
 ========
@@ -169,24 +169,44 @@ class Steps:
                          also_at)
 
     def result(self, name, expr):
-        """Name a result to be stored beside the file and compared on later runs."""
-        from sympy import Basic
+        """Name a result to be stored beside the file and compared on later runs.
+
+        ``expr`` is a SymPy expression, a matrix (kept as an ``ImmutableMatrix``), a
+        tuple or list (kept as a tuple), or a dict, nested freely (see
+        :func:`amalgebra.derivations.store.encode_value`).  What the stored-results
+        format cannot hold is refused at once.
+        """
+        from sympy import Basic, Dict, ImmutableMatrix, MatrixBase, Tuple
+
+        from ..errors import ParseError, StoredResultError
+        from .store import encode_value
 
         _check_identifier(name, "result name")
         if name in self._record.results:
             raise ValueError(f"result name={name!r} must be unique within derivation "
                              f"{self._record.name!r}")
-        from ..errors import ParseError
-        from ..parsing import to_text
-
-        if not isinstance(expr, Basic):
-            raise TypeError(f"result {name}={expr!r} must be a SymPy expression")
+        storable = (Basic, MatrixBase, tuple, list, dict, Tuple, Dict)
+        if not isinstance(expr, storable) or isinstance(expr, str):
+            raise TypeError(f"result {name}={expr!r} must be a SymPy expression, matrix, "
+                            "tuple or dict")
         try:
-            to_text(expr)  # refuse at once what the stored-results format cannot hold
-        except ParseError as exc:
+            encode_value(expr, allow_text=False)  # refuse what the format cannot hold
+        except StoredResultError as exc:
             raise ParseError(f"result {name!r} cannot be stored: {exc}") from None
-        self._record.results[name] = expr
-        return expr
+        value = _frozen(expr, ImmutableMatrix, MatrixBase)
+        self._record.results[name] = value
+        return value
+
+
+def _frozen(value, immutable, matrix_base):
+    """Matrices as immutable matrices and lists as tuples, through tuples and dicts."""
+    if isinstance(value, matrix_base):
+        return value if isinstance(value, immutable) else immutable(value)
+    if isinstance(value, (tuple, list)):
+        return tuple(_frozen(v, immutable, matrix_base) for v in value)
+    if isinstance(value, dict):
+        return {k: _frozen(v, immutable, matrix_base) for k, v in value.items()}
+    return value
 
 
 class Derivation:
@@ -229,6 +249,19 @@ def derivation(func=None, *, name=None, title=None, tolerance=DEFAULT_TOLERANCE,
     """Decorator declaring a derivation function (see the module docstring).
 
     Use as ``@derivation`` or ``@derivation(title="...", tolerance=1e-10)``.
+
+    Examples
+    ========
+
+    >>> from sympy import symbols
+    >>> @derivation(title="A binomial square")
+    ... def binomial(d):
+    ...     x = symbols("x")
+    ...     d.step("square", (x + 1)**2, x**2 + 2*x + 1, "expand the product")
+    ...     d.result("square", x**2 + 2*x + 1)
+    >>> record = binomial.run()
+    >>> record.ok, record.steps[0].name
+    (True, 'square')
     """
     if func is not None:
         return Derivation(func, name, title, tolerance, points)

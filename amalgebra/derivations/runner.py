@@ -13,8 +13,9 @@ is what the ``amalgebra`` command returns:
 
 * ``0``: every step holds and every stored result is identical or equal;
 * ``1``: a step failed, a derivation raised, a file could not be loaded, a stored
-  file is malformed, or a result changed or went stale (and, with ``exact=True``, a
-  step was only checked numerically);
+  file or entry is unreadable, a result changed, went stale or could not be compared
+  within the budget (and, with ``exact=True``, a step was only checked numerically
+  or a stored result was found equal only by the numeric test);
 * ``3``: nothing failed, but some results are not recorded yet.
 
 Examples
@@ -41,13 +42,15 @@ Examples
 """
 
 import importlib.util
+import os
 import re
 import sys
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from .record import Derivation
-from .regression import Comparison, compare_record
+from ..errors import StoredResultError
+from .regression import FAILING, Comparison, compare_record
 from .store import load_results, results_path, write_results
 
 __all__ = ["FileOutcome", "RunOutcome", "discover", "load_derivations", "run_file",
@@ -70,12 +73,15 @@ class FileOutcome:
     store_error: BaseException | None = None
     recorded: bool = False
     derivation_names: list = field(default_factory=list)
+    #: ``file:line:column: ...`` problems of the stored file outside any entry.
+    store_problems: list = field(default_factory=list)
 
     @property
     def failed(self):
         return (self.load_error is not None or self.store_error is not None
+                or bool(self.store_problems)
                 or any(not r.ok for r in self.records)
-                or any(c.status in ("changed", "stale") for c in self.comparisons))
+                or any(c.status in FAILING for c in self.comparisons))
 
 
 @dataclass
@@ -97,7 +103,8 @@ class RunOutcome:
     def exit_code(self):
         if any(f.failed for f in self.files):
             return EXIT_FAILED
-        if self.exact and any(r.numeric_steps for r in self.records):
+        if self.exact and (any(r.numeric_steps for r in self.records)
+                           or any(c.passed and not c.exact for c in self.comparisons)):
             return EXIT_FAILED
         if any(c.status == "unrecorded" for c in self.comparisons):
             return EXIT_UNRECORDED
@@ -145,10 +152,19 @@ def _selected(derivations, only):
     return [d for d in derivations if not only or d.name in only]
 
 
-def run_file(path, *, only=None, root=None, progress=None, counter=None, derivations=None):
+def _unreadable(record, error):
+    """One ``unreadable`` comparison per result when the stored file cannot be read."""
+    return [Comparison(record.name, name, "unreadable", None, None, None,
+                       f"  the stored results file cannot be read: {error}")
+            for name in record.results]
+
+
+def run_file(path, *, only=None, root=None, progress=None, counter=None, derivations=None,
+             budget=None):
     """Run the derivations of one file and compare their results with the stored ones.
 
-    ``derivations`` (already loaded) avoids importing the file twice.
+    ``derivations`` (already loaded) avoids importing the file twice; ``budget`` (a
+    :class:`~amalgebra.derivations.budget.Budget`) bounds each comparison.
     """
     path = Path(path)
     outcome = FileOutcome(path, _label(path, root or path.parent))
@@ -161,14 +177,18 @@ def run_file(path, *, only=None, root=None, progress=None, counter=None, derivat
     outcome.derivation_names = [d.name for d in derivations]
     try:
         stored = load_results(results_path(path))
-    except Exception as exc:  # noqa: BLE001 - StoredResultError, or an unreadable file
+    except StoredResultError as exc:
         outcome.store_error, stored = exc, None
+    if stored is not None:
+        outcome.store_problems = list(stored.problems)
     for deriv in _selected(derivations, only):
         record = deriv.run()
         outcome.records.append(record)
-        if record.ok and outcome.store_error is None:
+        if record.ok and outcome.store_error is not None:
+            outcome.comparisons.extend(_unreadable(record, outcome.store_error))
+        elif record.ok:
             outcome.comparisons.extend(compare_record(
-                record, None if stored is None else stored.get(deriv.name)))
+                record, None if stored is None else stored.get(deriv.name), budget=budget))
         if progress is not None:
             counter[0] += 1
             progress(counter[0], counter[1], f"{outcome.name}::{deriv.name}", record)
@@ -181,7 +201,7 @@ def run_file(path, *, only=None, root=None, progress=None, counter=None, derivat
     return outcome
 
 
-def _run_all(folder, only, progress):
+def _run_all(folder, only, progress, budget=None):
     paths = discover(folder)
     root = folder if Path(folder).is_dir() else Path(folder).parent
     loaded = []
@@ -198,11 +218,11 @@ def _run_all(folder, only, progress):
             files.append(FileOutcome(p, _label(p, root), load_error=error))
         else:
             files.append(run_file(p, only=only, root=root, progress=progress,
-                                  counter=counter, derivations=derivs))
+                                  counter=counter, derivations=derivs, budget=budget))
     return files
 
 
-def run_folder(folder, *, only=None, exact=False, progress=None):
+def run_folder(folder, *, only=None, exact=False, progress=None, budget=None):
     """Run every derivation file under ``folder``; see the module docstring.
 
     Parameters
@@ -210,42 +230,63 @@ def run_folder(folder, *, only=None, exact=False, progress=None):
 
     folder : path of a folder (searched recursively) or of one derivation file.
     only : collection of derivation names to run (all when empty).
-    exact : count steps checked only numerically as failures.
+    exact : count steps checked only numerically, and stored results found equal
+        only by the numeric test, as failures.
     progress : optional ``callable(done, total, label, record)`` called after each
         derivation.
+    budget : :class:`~amalgebra.derivations.budget.Budget` bounding each comparison
+        of a stored result (default: ``Budget()``).
     """
-    return RunOutcome(_run_all(folder, set(only or ()), progress), exact)
+    return RunOutcome(_run_all(folder, set(only or ()), progress, budget), exact)
 
 
-def record_folder(folder, *, only=None, progress=None):
+def record_folder(folder, *, only=None, progress=None, budget=None):
     """Run the derivations and (re)write their stored results: the explicit re-record.
 
     A file is written only when every selected derivation in it succeeded.  With
-    ``only``, stored entries of the other derivations are kept as they are; without it,
-    the file is rewritten from scratch (stale entries disappear).
+    ``only``, stored entries of the other derivations are kept as they are (so a file
+    with an unreadable entry is not merged into: a full record is needed); without it,
+    the file is rewritten from scratch (stale and unreadable entries disappear).  A
+    results path that is a symbolic link or not a regular file is never written
+    (:func:`~amalgebra.derivations.store.write_results`); that file's outcome then
+    carries the error.
     """
     only = set(only or ())
-    files = _run_all(folder, only, progress)
+    files = _run_all(folder, only, progress, budget)
     for f in files:
         if f.load_error is not None or not f.records or any(not r.ok for r in f.records):
             continue
-        if only and f.store_error is not None:
-            continue  # cannot merge into a malformed file: a full re-record is needed
-        old = (load_results(results_path(f.path)) or {}) if only else {}
+        target = results_path(f.path)
+        if only:
+            if f.store_error is not None:
+                continue  # cannot merge into an unreadable file: a full re-record is needed
+            old = load_results(target) or {}
+            if f.store_problems or any(e.error for v in old.values() for e in v.values()):
+                f.store_error = StoredResultError(
+                    f"{target}: not recorded with --only: it has unreadable entries (a "
+                    "record without --only rewrites the whole file)")
+                continue
+        else:
+            old = {}
         new = {r.name: dict(r.results) for r in f.records}
         merged = {}
         for name in f.derivation_names:
             if name in new:
                 merged[name] = new[name]
             elif name in old:
-                merged[name] = {k: e.text for k, e in old[name].items()}
+                merged[name] = dict(old[name])
         for section, entries in old.items():
-            merged.setdefault(section, {k: e.text for k, e in entries.items()})
-        if not any(merged.values()) and not results_path(f.path).exists():
+            merged.setdefault(section, dict(entries))
+        if not any(merged.values()) and not os.path.lexists(target):
             continue  # nothing to store: no empty file beside a derivation without results
-        write_results(results_path(f.path), merged, f.path.name)
-        # Read back what was written: the comparison then also proves the round trip.
-        stored = load_results(results_path(f.path))
-        f.recorded, f.store_error = True, None
-        f.comparisons = [c for r in f.records for c in compare_record(r, stored.get(r.name))]
+        try:
+            write_results(target, merged, f.path.name)
+            # Read back what was written: the comparison then also proves the round trip.
+            stored = load_results(target)
+        except StoredResultError as exc:
+            f.store_error = exc
+            continue
+        f.recorded, f.store_error, f.store_problems = True, None, list(stored.problems)
+        f.comparisons = [c for r in f.records
+                         for c in compare_record(r, stored.get(r.name), budget=budget)]
     return RunOutcome(files)

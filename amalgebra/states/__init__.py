@@ -14,8 +14,9 @@ Coupled kets (:mod:`.coupled`)
     :class:`CoupledKet`, :class:`CoupledBra`, :func:`coupled_ket`, :func:`coupled_chain`,
     :func:`to_uncoupled`, :func:`uncoupled_to_coupled`, :func:`coupled_basis`,
     :func:`uncoupled_basis`, :func:`coupling_matrix`, :func:`coupling_paths`
-Hamiltonians (:mod:`.hamiltonian`)
-    :func:`hamiltonian_matrix`, :class:`HamiltonianMatrix`, :class:`Block`, :func:`operator_matrix`
+Hamiltonians and bases (:mod:`.hamiltonian`, :mod:`.basis`, :mod:`.eigen`; the one engine is :mod:`.engine`)
+    :func:`hamiltonian_matrix`, :class:`HamiltonianMatrix`, :class:`OperatorMatrix`, :class:`Block`,
+    :func:`operator_matrix`, :class:`Basis`, :func:`product_basis`, :class:`Eigenvalues`, :func:`block_eigenvalues`
 Many spins 1/2 (:mod:`.manyspin`)
     :func:`spin_labels`, :func:`multiplet_count`, :func:`total_spin_states`, :func:`singlet`,
     :func:`spin_along`, :func:`correlation`, :func:`chsh`, :func:`total_spin_squared`
@@ -43,7 +44,10 @@ from . import actionform as _actionform
 from .action import apply, expectation, matrix_element
 from .coupled import (CoupledBra, CoupledKet, coupled_basis, coupled_chain, coupled_ket, coupling_matrix,
                       coupling_paths, to_uncoupled, uncoupled_basis, uncoupled_to_coupled)
-from .hamiltonian import Block, HamiltonianMatrix, hamiltonian_matrix, operator_matrix
+from .basis import Basis, product_basis
+from .eigen import Eigenvalues, block_eigenvalues
+from . import engine as _engine
+from .hamiltonian import Block, HamiltonianMatrix, OperatorMatrix, hamiltonian_matrix, operator_matrix
 from .kets import (Bra, Ket, ProductBra, ProductKet, bra, components, from_components, inner, ket, norm,
                    normalize, product_ket, tensor)
 from .manyspin import (chsh, correlation, multiplet_count, singlet, spin_along, spin_labels,
@@ -56,7 +60,8 @@ __all__ = [
     "apply", "matrix_element", "expectation", "ActionForm", "action_form", "condon_shortley",
     "CoupledKet", "CoupledBra", "coupled_ket", "coupled_chain", "to_uncoupled", "uncoupled_to_coupled",
     "coupled_basis", "uncoupled_basis", "coupling_matrix", "coupling_paths",
-    "hamiltonian_matrix", "HamiltonianMatrix", "Block", "operator_matrix",
+    "hamiltonian_matrix", "HamiltonianMatrix", "OperatorMatrix", "Block", "operator_matrix",
+    "Basis", "product_basis", "Eigenvalues", "block_eigenvalues",
     "spin_labels", "multiplet_count", "total_spin_states", "singlet", "spin_along", "correlation", "chsh",
     "total_spin_squared",
     "clear_state_caches",
@@ -69,4 +74,5 @@ def clear_state_caches():
     >>> clear_state_caches()
     """
     _actionform.clear_caches()
+    _engine.clear_caches()
     _coupled.clear_caches()

@@ -3,13 +3,19 @@ r"""Operators acting on kets, and matrix elements in closed form.
 Explanation
 ===========
 
-:func:`apply` applies any polynomial in the angular-momentum components
-(canonical or not; sums, products, integer powers, scalar coefficients) to a
-ket or a linear combination of kets; :func:`matrix_element` returns
-:math:`\langle\phi|O|\psi\rangle`.  Both go through the action form of the
-operator (:mod:`amalgebra.states.actionform`), computed once per operator and
-label set, so the result for symbolic :math:`j, m` is a polynomial times the
-Condon-Shortley square roots
+:func:`apply` applies any operator that :func:`~amalgebra.algebra.canonical`
+accepts (angular-momentum components of any number of labels, spherical
+tensor and vector operator components, products, sums, integer powers,
+symbolic coefficients) to a ket, a product ket, a coupled ket or a linear
+combination of them, and a boson polynomial to Fock kets;
+:func:`matrix_element` returns :math:`\langle\phi|O|\psi\rangle`,
+:func:`expectation` the normalised expectation value.  All go through the one
+engine, :mod:`amalgebra.states.engine` (normal form once per operator and label
+set; tensor components by the Wigner-Eckart theorem, Edmonds normalisation by
+default, ``convention="cg"`` for the Clebsch-Gordan form; ``reduced=`` gives
+reduced elements), so the result for symbolic :math:`j, m` of an
+angular-momentum polynomial is a polynomial times the Condon-Shortley square
+roots
 
 .. math::
 
@@ -46,6 +52,14 @@ sqrt(j + m)*sqrt(j - m + 1)*|j, m - 1>_J
 >>> matrix_element(bra(j, m + 1), J.x, ket(j, m), conditions=False)
 sqrt(j - m)*sqrt(j + m + 1)/2
 
+A Stark-type element by the Wigner-Eckart theorem, :math:`\langle 1 0|C^1_0|0 0\rangle = 1/\sqrt 3`
+(Racah tensor, Edmonds normalisation):
+
+>>> from amalgebra.tensors import racah_tensor
+>>> C1 = racah_tensor(1)
+>>> matrix_element(bra(1, 0, "L"), C1[0], ket(0, 0, "L"))
+sqrt(3)/3
+
 Identity check, :math:`J^2 = J_z^2 + (J_+J_- + J_-J_+)/2`:
 
 >>> lhs = apply(J.squared, ket(j, m))
@@ -56,8 +70,13 @@ True
 Parameters
 ==========
 
-op : SymPy expression built from ``AngularMomentum(label)`` components and scalars
-state : a ket, product ket or linear combination of them
+op : SymPy expression in angular-momentum, tensor and vector components (or boson operators) and scalars
+state : a ket, product ket, coupled ket, Fock ket or linear combination of them
+reduced : dict, optional
+    ``{family: {(j', j): value}}`` or ``{family: callable(j', j)}`` for tensor
+    or vector families (as in :func:`amalgebra.matrices.explicit.to_matrix`)
+convention : {"edmonds", "cg"}
+    normalisation of the reduced elements
 
 See Also
 ========
@@ -74,11 +93,11 @@ References
 from sympy import Add, And, KroneckerDelta, Mul, Piecewise, S, adjoint
 
 from ..errors import StateError
-from .kets import Bra, Ket, ProductBra, ProductKet, _factor_map, _label_key, components
-from .actionform import action_form
+from .engine import compile_operator
+from .kets import (_FAMILIES, Bra, Ket, ProductBra, ProductKet, _factor_map, _family_of, _label_key, components,
+                   register_state_family)
 
 __all__ = ["apply", "matrix_element", "expectation"]
-
 
 def _basis_values(basis):
     """Sorted labels and ``{label: (j, m)}`` of a basis ket or bra."""
@@ -86,24 +105,26 @@ def _basis_values(basis):
     return tuple(sorted(fm, key=_label_key)), fm
 
 
-def _target(labels, values, shift):
-    kets = [Ket(values[lab][0], values[lab][1] + d, lab) if d else Ket._unchecked(*values[lab], lab)
-            for lab, d in zip(labels, shift)]
+def _target(labels, values):
+    kets = [Ket(j, m, lab) for lab, (j, m) in zip(labels, values)]
     if len(kets) == 1:
         return kets[0]
     return ProductKet._unchecked(kets)
 
 
-def apply(op, state):
+def apply(op, state, *, reduced=None, convention="edmonds"):
     r"""Apply the operator ``op`` to a ket or a linear combination of kets.
 
     Explanation
     ===========
 
-    Each basis ket contributes :math:`\sum_d c_d N_d |j, m+d\rangle` (see the
-    module docstring); kets outside the range of a numeric ``j`` are never
-    produced (their amplitude is an exact zero).  The operator must act only
-    on labels the ket carries, otherwise :class:`~amalgebra.errors.OperatorError`.
+    Each basis ket contributes the targets of :mod:`amalgebra.states.engine`;
+    kets outside the range of a numeric ``j`` are never produced (their
+    amplitude is an exact zero).  Coupled kets enter through their product-ket
+    expansion, so the result is in the product basis.  The operator must act
+    only on labels the ket carries, otherwise
+    :class:`~amalgebra.errors.OperatorError`; a tensor component acts on the
+    ket factor of its label.
 
     Examples
     ========
@@ -116,19 +137,36 @@ def apply(op, state):
     0
     >>> apply(L.plus * S.minus, k)
     sqrt(2)*|1, 1>_L|1/2, -1/2>_S
+    >>> from amalgebra.tensors import SphericalTensor
+    >>> T = SphericalTensor("T", 1, "S")
+    >>> apply(T[1], ket("1/2", "-1/2", "S"), reduced={T: {("1/2", "1/2"): 1}})   # only j' = 1/2 given
+    -sqrt(3)*|1/2, 1/2>_S/3
     """
+    family = _family_of(state, 0) if _FAMILIES and hasattr(state, "has") else None
+    if family is not None:
+        return family[2](op, state)
+    table = _reduced_table(reduced)
     parts = {}
     for basis, coeff in components(state).items():
         labels, values = _basis_values(basis)
-        form = action_form(op, labels)
-        for shift, amp in form.closed_form(values).items():
-            parts.setdefault(_target(labels, values, shift), []).append(coeff * amp)
+        compiled = compile_operator(op, labels)
+        start = tuple(values[lab] for lab in labels)
+        for target, amp in compiled.act({start: S.One}, table, convention).items():
+            parts.setdefault(_target(labels, target), []).append(coeff * amp)
     terms = []
     for basis, cs in parts.items():
         c = Add(*cs)
         if c != 0:
             terms.append(c * basis)
     return Add(*terms)
+
+
+def _reduced_table(reduced):
+    if reduced is None:
+        return None
+    from ..matrices.multiplets import check_reduced
+
+    return check_reduced(reduced)
 
 
 def _range_conditions(values):
@@ -142,29 +180,25 @@ def _range_conditions(values):
     return conds
 
 
-def _element(b, op, k, conditions):
+def _element(b, op, k, conditions, table, convention):
     bl, bv = _basis_values(b)
     kl, kv = _basis_values(k)
     if bl != kl:
         raise StateError(f"bra={b} and ket={k} must carry the same labels, got {list(bl)} and {list(kl)}")
-    form = action_form(op, kl)
-    numeric = all(v.is_Rational for lab in kl for v in (*bv[lab], *kv[lab]))
+    compiled = compile_operator(op, kl)
+    start = tuple(kv[lab] for lab in kl)
+    goal = tuple(bv[lab] for lab in kl)
+    numeric = all(v.is_Rational for pair in start + goal for v in pair)
     if numeric:
-        if any(bv[lab][0] != kv[lab][0] for lab in kl):
-            return S.Zero
-        shift = tuple(bv[lab][1] - kv[lab][1] for lab in kl)
-        if not all(d.is_Integer for d in shift):
-            return S.Zero
-        return form.amplitude(tuple(int(d) for d in shift), kv)
+        return compiled.element(goal, start, table, convention)
     terms = []
-    for shift, amp in form.closed_form(kv).items():
-        deltas = [KroneckerDelta(bv[lab][0], kv[lab][0]) * KroneckerDelta(bv[lab][1], kv[lab][1] + d)
-                  for lab, d in zip(kl, shift)]
+    for target, amp in compiled.act({start: S.One}, table, convention).items():
+        deltas = [KroneckerDelta(g[0], t[0]) * KroneckerDelta(g[1], t[1]) for g, t in zip(goal, target)]
         terms.append(Mul(amp, *deltas))
     value = Add(*terms)
     if not conditions or value == 0:
         return value
-    conds = _range_conditions([kv[lab] for lab in kl] + [bv[lab] for lab in kl])
+    conds = _range_conditions(list(start) + list(goal))
     if conds is None:
         return S.Zero
     if not conds:
@@ -172,7 +206,7 @@ def _element(b, op, k, conditions):
     return Piecewise((value, And(*conds)), (S.Zero, True))
 
 
-def matrix_element(bra_state, op, ket_state, *, conditions=True):
+def matrix_element(bra_state, op, ket_state, *, conditions=True, reduced=None, convention="edmonds"):
     r"""The matrix element :math:`\langle\phi|O|\psi\rangle` in closed form.
 
     Explanation
@@ -180,10 +214,12 @@ def matrix_element(bra_state, op, ket_state, *, conditions=True):
 
     ``bra_state`` is a bra or combination of bras (``sympy.adjoint`` of a ket
     combination; a ket given here is turned into its bra).  For numeric quantum
-    numbers the value is exact.  For symbolic ones it is a sum over the shifts
-    ``d`` of the operator of ``KroneckerDelta(m', m + d)`` times the closed
-    form, wrapped in ``Piecewise((..., -j <= m <= j & -j <= m' <= j), (0, True))``
+    numbers the value is exact.  For symbolic ones it is a sum over the targets
+    of the operator of ``KroneckerDelta(j', j_target) KroneckerDelta(m', m_target)``
+    times the closed form, wrapped in
+    ``Piecewise((..., -j <= m <= j & -j <= m' <= j), (0, True))``
     unless the range is decided by assumptions or ``conditions=False``.
+    Tensor components: see :func:`apply` (``reduced``, ``convention``).
 
     Examples
     ========
@@ -203,11 +239,15 @@ def matrix_element(bra_state, op, ket_state, *, conditions=True):
 
     apply, expectation
     """
+    family = _family_of(ket_state, 0) if _FAMILIES and hasattr(ket_state, "has") else None
+    if family is not None:
+        return family[3](bra_state if _family_of(bra_state, 1) else adjoint(bra_state), family[2](op, ket_state))
     if isinstance(bra_state, (Ket, ProductKet)) or not _bra_like(bra_state):
         bra_state = adjoint(bra_state)
+    table = _reduced_table(reduced)
     bras = components(bra_state, (Bra, ProductBra), "bra")
     kets = components(ket_state)
-    terms = [cb * ck * _element(b, op, k, conditions)
+    terms = [cb * ck * _element(b, op, k, conditions, table, convention)
              for b, cb in bras.items() for k, ck in kets.items()]
     return Add(*terms)
 
@@ -220,7 +260,7 @@ def _bra_like(state):
     return True
 
 
-def expectation(op, state):
+def expectation(op, state, *, reduced=None, convention="edmonds"):
     r"""The expectation value :math:`\langle\psi|O|\psi\rangle / \langle\psi|\psi\rangle`.
 
     Examples
@@ -233,10 +273,15 @@ def expectation(op, state):
     >>> expectation(J.x, (ket("1/2", "1/2") + ket("1/2", "-1/2")) / sqrt(2))
     1/2
     """
-    from .kets import inner
+    family = _family_of(state, 0) if _FAMILIES and hasattr(state, "has") else None
+    if family is not None:
+        num = family[3](adjoint(state), family[2](op, state))
+        den = family[3](adjoint(state), state)
+    else:
+        from .kets import inner
 
-    num = matrix_element(adjoint(state), op, state, conditions=False)
-    den = inner(adjoint(state), state)
+        num = matrix_element(adjoint(state), op, state, conditions=False, reduced=reduced, convention=convention)
+        den = inner(adjoint(state), state)
     if den == 0:
         raise StateError(f"state={state} must be nonzero")
     return (num / den).expand() if den != 1 else num.expand()

@@ -1,40 +1,30 @@
-r"""The action form of an operator: its action on a generic ket as polynomials in (j, m).
+r"""The action of an operator on a generic ket, read off its canonical m-shift form.
 
 Explanation
 ===========
 
 Any polynomial operator :math:`O` in the angular momenta of labels
-:math:`L_1, \dots, L_n` acts on a product ket as
+:math:`L_1, \dots, L_n` has the canonical form
+:math:`\sum_d R^{(d)} p_d(J^2, J_z)` (:func:`amalgebra.algebra.canonical`), so
+it acts on a product ket as
 
 .. math::
 
     O \prod_L |j_L m_L\rangle = \sum_{d} c_d(j, m) \prod_L N_{d_L}(j_L, m_L)
-    |j_L, m_L + d_L\rangle,
+    |j_L, m_L + d_L\rangle, \qquad c_d(j, m) = p_d(j(j+1), m),
 
-with :math:`c_d` *polynomials* in all :math:`j_L, m_L` and the Condon-Shortley
-factors
-
-.. math::
-
-    N_d(j, m) = \prod_{k=0}^{d-1} \sqrt{(j-m-k)(j+m+k+1)} \ (d \ge 0), \qquad
-    N_{-d}(j, m) = \prod_{k=1}^{d} \sqrt{(j+m-k+1)(j-m+k)}.
-
-This module computes the :math:`c_d` by applying the operator, factor by factor
-from the right, to a generic ket: :math:`J_\pm` move :math:`d` by one and
-multiply by :math:`f(x) = (j-x)(j+x+1)` only when the step goes back over an
-edge already counted in :math:`N_d`; :math:`J_z` multiplies by :math:`m+d`,
-:math:`J^2` by :math:`j(j+1)`, and :math:`J_x = (J_+ + J_-)/2`,
-:math:`J_y = (J_+ - J_-)/(2i)`.  Nothing is expanded into words, so
-``(Jx**2 - Jy**2 + Jz*Jx)**4`` costs a few polynomial products per factor.
-Coefficients live in a ``sympy.polys`` ring over the domain SymPy constructs
-for the operator's scalar coefficients (``QQ_I``, ``QQ_I[A, B]``, ... or ``EX``).
+with :math:`N_d` the Condon-Shortley ladder factor of :mod:`amalgebra._exact`.
+This module composes the kernel's polynomials :math:`p_d` with
+:math:`J^2 \to j(j+1)`, :math:`J_z \to m` inside one ``sympy.polys`` ring over
+:math:`(j_L, m_L)`, so the closed form for symbolic :math:`j, m` and the exact
+value at numeric points both come from the same data, computed once per
+operator and label set.  It is the only operator-on-ket engine of the package:
+:mod:`amalgebra.states.engine` builds on it (tensor components included), and
+:mod:`amalgebra.testing.action_oracle` keeps an independent word-by-word walk
+as the cross-check.
 
 The phase convention is Condon-Shortley, :math:`\hbar = 1`:
 :math:`J_\pm|j m\rangle = \sqrt{(j\mp m)(j\pm m+1)}\,|j, m\pm1\rangle`.
-
-Operators are recognised by comparing the noncommutative atoms of the
-expression with the components of ``AngularMomentum(label)`` of
-:mod:`amalgebra.algebra` for the labels of the ket.
 
 Examples
 ========
@@ -59,7 +49,7 @@ labels : tuple of str, the labels of the space the operator acts on
 See Also
 ========
 
-amalgebra.states.action.apply, amalgebra.states.action.matrix_element
+amalgebra.states.engine, amalgebra.states.action.apply
 
 References
 ==========
@@ -67,90 +57,48 @@ References
 .. [1] A. R. Edmonds, *Angular Momentum in Quantum Mechanics* (Princeton, 1957), ch. 2.
 """
 
-from collections import OrderedDict
-from functools import lru_cache
+from fractions import Fraction
 from math import gcd
 
-from sympy import QQ_I, ZZ, Add, Dummy, Expr, I, Integer, Mul, Pow, Rational, S, default_sort_key, sqrt
+from sympy import Add, Dummy, Expr, I, Mul, Rational, S, default_sort_key
 from sympy.polys.constructor import construct_domain
+from sympy.polys.domains import QQ, ZZ
 from sympy.polys.rings import PolyRing
 
-from ..errors import ConventionError, OperatorError
+from .._exact import clear_caches as _clear_exact
+from .._exact import condon_shortley, sqrt_of_product
+from .._validation import label_key
+from ..algebra.convert import kernel_of
+from ..algebra.modes import ANGULAR_MOMENTUM
+from ..errors import OperatorError
 
-__all__ = ["ActionForm", "action_form", "generator_table", "sqrt_of_product", "condon_shortley", "clear_caches"]
-
-_KINDS = ("plus", "minus", "z", "x", "y", "squared")
-
-
-@lru_cache(maxsize=64)
-def _table(labels):
-    from ..algebra import AngularMomentum
-
-    table = {}
-    for index, label in enumerate(labels):
-        mom = AngularMomentum(label)
-        for kind in _KINDS:
-            comp = getattr(mom, kind)
-            if not isinstance(comp, (Add, Mul, Pow)):
-                table[comp] = (index, kind)
-    return table
-
-
-def generator_table(labels):
-    """Map each atomic operator of ``AngularMomentum(label)`` to ``(label index, kind)``.
-
-    ``kind`` is one of ``"plus", "minus", "z", "x", "y", "squared"``.
-
-    >>> from amalgebra.algebra import AngularMomentum
-    >>> generator_table(("S",))[AngularMomentum("S").z]
-    (0, 'z')
-    """
-    return dict(_table(tuple(labels)))
-
-
-def _collect_scalars(expr, table, labels, out):
-    """Collect the commutative coefficients of ``expr`` and check its nc atoms."""
-    if expr.is_commutative:
-        out.append(expr)
-    elif isinstance(expr, Add):
-        for arg in expr.args:
-            _collect_scalars(arg, table, labels, out)
-    elif isinstance(expr, Mul):
-        c, nc = expr.args_cnc()
-        out.append(Mul(*c))
-        for f in nc:
-            _collect_scalars(f, table, labels, out)
-    elif isinstance(expr, Pow):
-        if not (expr.exp.is_Integer and expr.exp > 0):
-            raise OperatorError(f"operator={expr} must have positive integer powers only")
-        _collect_scalars(expr.base, table, labels, out)
-    elif expr not in table:
-        raise OperatorError(
-            f"operator factor {expr} must be a component of AngularMomentum(label) for a label in "
-            f"{list(labels)} (the labels of the state it acts on)")
+__all__ = ["ActionForm", "action_form", "form_of_element", "check_labels", "condon_shortley", "sqrt_of_product",
+           "clear_caches"]
 
 
 class ActionForm:
-    """The action of an operator on a generic product ket (see the module docstring).
+    """The action of an angular-momentum polynomial on a generic product ket (see the module docstring).
 
-    Attributes: ``labels`` (tuple of str), ``ring`` (the polynomial ring),
-    ``jvars`` and ``mvars`` (its generators per label, as ring elements) and
-    ``terms`` (an ordered dict shift tuple -> ring element, sorted by shift).
-    Not a SymPy object: it is a computation cache; :meth:`closed_form` converts.
+    Attributes: ``labels`` (tuple of str, the ket's labels in the package's
+    label order), ``ring`` (the polynomial ring over ``j_L, m_L``), ``jvars``
+    and ``mvars`` (its generators per label) and ``terms`` (a dict shift tuple
+    -> ring element, sorted by shift).  Not a SymPy object: it is a
+    computation cache; :meth:`closed_form` converts.
     """
 
-    __slots__ = ("labels", "ring", "domain", "jvars", "mvars", "terms", "_symbols", "_conv")
+    __slots__ = ("labels", "ring", "domain", "jvars", "mvars", "terms", "_symbols", "_conv", "_ints")
 
-    def __init__(self, labels, ring, domain, symbols, terms):
+    def __init__(self, labels, ring, terms):
         self.labels = tuple(labels)
         self.ring = ring
-        self.domain = domain
-        self._symbols = symbols
+        self.domain = ring.domain
+        self._symbols = ring.symbols
         self._conv = {}
+        self._ints = {}
         n = len(labels)
         self.jvars = ring.gens[:n]
         self.mvars = ring.gens[n:2 * n]
-        self.terms = OrderedDict(sorted((k, v) for k, v in terms.items() if v))
+        self.terms = dict(sorted((k, v) for k, v in terms.items() if v))
 
     def __repr__(self):
         return f"ActionForm(labels={self.labels}, shifts={list(self.terms)})"
@@ -169,9 +117,9 @@ class ActionForm:
             out = cache[value] = self.domain.convert(value)
         return out
 
-    def _prepare(self, values):
-        """Per-label (j, m) pairs plus either a numeric point or a symbol mapping."""
-        vals = [_pair(v) for v in self._values(values)]
+    def prepare(self, pairs):
+        """Internal: per-label ``(j, m)`` SymPy pairs (label order) plus a numeric point or a symbol map."""
+        vals = [_pair(v) for v in pairs]
         if all(j.is_Rational and m.is_Rational for j, m in vals):
             point = [self._convert(j) for j, _ in vals] + [self._convert(m) for _, m in vals]
             return vals, point, None
@@ -183,19 +131,88 @@ class ActionForm:
         return vals, None, mapping
 
     def _value(self, poly, prepared):
-        _, point, mapping = prepared
+        vals, point, mapping = prepared
         if point is not None:
-            return self.domain.to_sympy(_evaluate(poly, point, self.domain))
+            if self.domain.is_QQ or self.domain.is_GaussianField:
+                return self._integer_value(poly, vals)
+            return self._grouped_value(poly, vals)
         return poly.as_expr().xreplace(mapping).expand()
 
-    def _amplitude(self, shift, prepared):
+    def _grouped_value(self, poly, vals):
+        """Exact value at numeric (j, m) for symbolic coefficients: monomials grouped by coefficient.
+
+        Each distinct coefficient (a SymPy expression in the user's symbols)
+        multiplies one rational number, the sum of its monomials at the point.
+        """
+        key = ("grouped", id(poly))
+        form = self._ints.get(key)
+        if form is None:
+            groups = {}
+            for monom, c in poly.items():
+                groups.setdefault(c, []).append(monom)
+            items = [(self.domain.to_sympy(c), monoms) for c, monoms in groups.items()]
+            # products of a rational and a monomial coefficient are already expanded: expand only sums
+            form = self._ints[key] = (poly, items, any(c.is_Add for c, _ in items))
+        point = [j for j, _ in vals] + [m for _, m in vals]
+        terms = []
+        for coeff, monoms in form[1]:
+            total = S.Zero
+            for monom in monoms:
+                value = S.One
+                for i, e in enumerate(monom):
+                    if e:
+                        value *= point[i] ** e
+                total += value
+            if total != 0:
+                terms.append(coeff * total)
+        if not terms:
+            return S.Zero
+        value = Add(*terms) if len(terms) > 1 else terms[0]
+        return value.expand() if form[2] else value
+
+    def _integer_value(self, poly, vals):
+        """Exact value at half-integer (j, m) by Python-int arithmetic on doubled values.
+
+        The polynomial is stored once as integer (real, imaginary) coefficients over one
+        denominator; each monomial ``j^a m^b`` is ``(2j)^a (2m)^b / 2^(a+b)``, so the sum
+        is one integer over ``den * 2^degree``.
+        """
+        key = id(poly)
+        form = self._ints.get(key)
+        if form is None:
+            form = self._ints[key] = (poly, _integer_form(poly, self.domain.is_GaussianField))
+        items, den, degree = form[1]
+        doubled = [int(2 * j) for j, _ in vals] + [int(2 * m) for _, m in vals]
+        re_total = im_total = 0
+        powers = {}
+        for monom, re_c, im_c in items:
+            value = 1 << (degree - sum(monom))
+            for i, e in enumerate(monom):
+                if e:
+                    p = powers.get((i, e))
+                    if p is None:
+                        p = powers[(i, e)] = doubled[i] ** e
+                    value *= p
+            re_total += re_c * value
+            im_total += im_c * value
+        scale = den << degree
+        out = Rational(re_total, scale)
+        if im_total:
+            out = out + I * Rational(im_total, scale)
+        return out
+
+    def shift_amplitude(self, shift, prepared):
+        """Internal: ``c_shift * prod N_d`` at prepared values."""
         c = self._value(self.terms[shift], prepared)
         if c == 0:
             return S.Zero
         factors = [c]
         for (j, m), d in zip(prepared[0], shift):
             if d:
-                factors.append(condon_shortley(j, m, d))
+                n = condon_shortley(j, m, d)
+                if n == 0:
+                    return S.Zero
+                factors.append(n)
         return Mul(*factors)
 
     def polynomial(self, shift, values):
@@ -203,24 +220,39 @@ class ActionForm:
         poly = self.terms.get(tuple(shift))
         if poly is None:
             return S.Zero
-        return self._value(poly, self._prepare(values))
+        return self._value(poly, self.prepare(self._values(values)))
 
     def amplitude(self, shift, values):
         """``c_shift * prod_L N_{d_L}(j_L, m_L)``: the coefficient of ``|j, m + shift>``."""
         shift = tuple(shift)
         if shift not in self.terms:
             return S.Zero
-        return self._amplitude(shift, self._prepare(values))
+        return self.shift_amplitude(shift, self.prepare(self._values(values)))
 
     def closed_form(self, values):
         """``{shift: amplitude}`` for every shift, at (possibly symbolic) ``{label: (j, m)}``."""
-        prepared = self._prepare(values)
+        prepared = self.prepare(self._values(values))
         out = {}
         for shift in self.terms:
-            amp = self._amplitude(shift, prepared)
+            amp = self.shift_amplitude(shift, prepared)
             if amp != 0:
                 out[shift] = amp
         return out
+
+
+def _integer_form(poly, gaussian):
+    """``([(monom, re, im)], den, degree)``: the coefficients of ``poly`` as ints over one denominator."""
+    den = 1
+    coeffs = []
+    for monom, c in poly.items():
+        parts = (c.x, c.y) if gaussian else (c, 0)
+        parts = [Fraction(int(p.numerator), int(p.denominator)) if p else Fraction(0) for p in parts]
+        coeffs.append((monom, parts))
+        for p in parts:
+            den = den * p.denominator // gcd(den, p.denominator)
+    items = [(monom, int(re * den), int(im * den)) for monom, (re, im) in coeffs]
+    degree = max((sum(monom) for monom, _, _ in items), default=0)
+    return items, den, degree
 
 
 def _evaluate(poly, point, domain):
@@ -245,365 +277,177 @@ def _pair(value):
     return S(j) if not isinstance(j, Expr) else j, S(m) if not isinstance(m, Expr) else m
 
 
-def _small_factor(n):
-    """Prime factorisation of a positive int as {p: e} (trial division; n is ~2j)."""
-    return dict(_factor_cached(n))
-
-
-@lru_cache(maxsize=8192)
-def _factor_cached(n):
-    out = []
-    p = 2
-    while p * p <= n:
-        e = 0
-        while n % p == 0:
-            n //= p
-            e += 1
-        if e:
-            out.append((p, e))
-        p += 1 if p == 2 else 2
-    if n > 1:
-        out.append((n, 1))
-    return tuple(out)
-
-
-def sqrt_of_product(factors):
-    """Exact ``sqrt(prod(factors))`` for nonnegative Python ints, as a SymPy number.
-
-    Each factor is factorised separately (they are small, ~2j), so the square
-    part is pulled out without factorising the product.
-
-    >>> sqrt_of_product([6, 10, 15])
-    30
-    >>> sqrt_of_product([2, 3, 4])
-    2*sqrt(6)
-    """
-    exps = {}
-    for n in factors:
-        if n == 0:
-            return S.Zero
-        if n < 0:
-            raise OperatorError(f"factor={n} must be >= 0 under a Condon-Shortley square root")
-        for p, e in _factor_cached(n):
-            exps[p] = exps.get(p, 0) + e
-    outer, inner = 1, 1
-    for p, e in exps.items():
-        outer *= p ** (e // 2)
-        if e % 2:
-            inner *= p
-    if inner == 1:
-        return Integer(outer)
-    return Integer(outer) * Pow(Integer(inner), S.Half, evaluate=False)
-
-
-def condon_shortley(j, m, d):
-    r"""The factor :math:`N_d(j, m)`: ``<j, m+d| J_+^d |j m>`` for ``d >= 0``, ``<j, m+d| J_-^{|d|} |j m>`` else.
-
-    Exact for numeric ``j``, ``m`` (0 when ``m + d`` leaves the range), a product
-    of square roots otherwise.
-
-    >>> from sympy import Symbol
-    >>> condon_shortley(1, -1, 2)
-    2
-    >>> condon_shortley(Symbol("j"), Symbol("m"), -1)
-    sqrt(j + m)*sqrt(j - m + 1)
-    """
-    if d == 0:
-        return S.One
-    j, m = _pair((j, m))
-    if j.is_Rational and m.is_Rational:
-        tj, tm = int(2 * j), int(2 * m)
-        ints = []
-        if d > 0:
-            for k in range(d):
-                ints.append((tj - tm - 2 * k) // 2)
-                ints.append((tj + tm + 2 * k + 2) // 2)
-        else:
-            for k in range(1, -d + 1):
-                ints.append((tj + tm - 2 * k + 2) // 2)
-                ints.append((tj - tm + 2 * k) // 2)
-        if any(n < 0 for n in ints):
-            return S.Zero
-        return sqrt_of_product(ints)
-    if d > 0:
-        return Mul(*[sqrt(j - m - k) * sqrt(j + m + k + 1) for k in range(d)])
-    return Mul(*[sqrt(j + m - k + 1) * sqrt(j - m + k) for k in range(1, -d + 1)])
-
-
-class _Builder:
-    """Applies an operator expression to the generic ket, right to left (field coefficients).
-
-    A state is ``(terms, den)``: ``{shift: coefficient} / den``; here ``den``
-    stays 1 and coefficients are ring elements over the field ``domain``.
-    :class:`_GaussBuilder` specialises the common Gaussian-rational case.
-    """
-
-    def __init__(self, labels, table, symbols, domain):
-        self.labels, self.table, self.domain = labels, table, domain
-        self.ring = PolyRing(symbols, self.work_domain(domain))
-        n = len(labels)
-        self.j = self.ring.gens[:n]
-        self.m = self.ring.gens[n:2 * n]
-        self._edges = {}
-        self.setup()
-
-    # -- hooks a subclass replaces ------------------------------------------------------
-    def work_domain(self, domain):
+def _field(domain):
+    if domain.is_EX or domain.is_Field:
         return domain
-
-    def setup(self):
-        half = self.domain.convert(Rational(1, 2))
-        self.x_up = self.x_down = half
-        self.y_up, self.y_down = self.domain.from_sympy(-I / 2), self.domain.from_sympy(I / 2)
-
-    def start(self):
-        return {(0,) * len(self.labels): self.ring.one}, 1
-
-    def scale(self, terms, expr):
-        c = self.domain.from_sympy(expr)
-        return {k: v.mul_ground(c) for k, v in terms.items()}, 1
-
-    def mul_poly(self, c, poly):
-        return c * poly
-
-    def mul_ground(self, c, ground):
-        return c.mul_ground(ground)
-
-    def add(self, a, b):
-        return a + b
-
-    def is_zero(self, c):
-        return not c
-
-    def times_int(self, c, k):
-        return c * k
-
-    def result(self, state):
-        return dict(state[0])
-
-    # -- the walk -----------------------------------------------------------------------
-    def edge(self, index, x):
-        """f(m + x) = (j - m - x)(j + m + x + 1) for label ``index``."""
-        key = (index, x)
-        if key not in self._edges:
-            j, m = self.j[index], self.m[index]
-            self._edges[key] = (j - m - x) * (j + m + x + 1)
-        return self._edges[key]
-
-    def apply(self, expr, state):
-        terms, den = state
-        if not terms:
-            return state
-        if expr.is_commutative:
-            if expr == 0:
-                return {}, 1
-            scaled, d = self.scale(terms, expr)
-            return scaled, den * d
-        if isinstance(expr, Add):
-            return self.sum([self.apply(arg, state) for arg in expr.args])
-        if isinstance(expr, Mul):
-            c, nc = expr.args_cnc()
-            for f in reversed(nc):
-                state = self.apply(f, state)
-            coeff = Mul(*c)
-            return state if coeff == 1 else self.apply(coeff, state)
-        if isinstance(expr, Pow):
-            for _ in range(int(expr.exp)):
-                state = self.apply(expr.base, state)
-            return state
-        index, kind = self.table[expr]
-        return getattr(self, "_" + kind)(index, state)
-
-    def sum(self, states):
-        """Sum of ``(terms, den)`` states over their least common denominator."""
-        den = 1
-        for _, d in states:
-            den = _lcm(den, d)
-        out = {}
-        for terms, d in states:
-            factor = den // d
-            for k, v in terms.items():
-                if factor != 1:
-                    v = self.times_int(v, factor)
-                out[k] = self.add(out[k], v) if k in out else v
-        return {k: v for k, v in out.items() if not self.is_zero(v)}, den
-
-    def _shifted(self, index, terms, step, ground=None, out=None):
-        """Move shift ``index`` by ``step``, times the ground factor ``ground``."""
-        out = {} if out is None else out
-        for shift, c in terms.items():
-            d = shift[index]
-            if step > 0 and d < 0:
-                c = self.mul_poly(c, self.edge(index, d))
-            elif step < 0 and d > 0:
-                c = self.mul_poly(c, self.edge(index, d - 1))
-            if ground is not None:
-                c = self.mul_ground(c, ground)
-            new = shift[:index] + (d + step,) + shift[index + 1:]
-            if new in out:
-                c = self.add(out[new], c)
-                if self.is_zero(c):
-                    del out[new]
-                    continue
-            out[new] = c
-        return out
-
-    def _plus(self, index, state):
-        return self._shifted(index, state[0], 1), state[1]
-
-    def _minus(self, index, state):
-        return self._shifted(index, state[0], -1), state[1]
-
-    def _z(self, index, state):
-        m = self.m[index]
-        return {k: self.mul_poly(v, m + k[index]) for k, v in state[0].items()}, state[1]
-
-    def _squared(self, index, state):
-        j = self.j[index]
-        cas = j * (j + 1)
-        return {k: self.mul_poly(v, cas) for k, v in state[0].items()}, state[1]
-
-    def _x(self, index, state):
-        out = self._shifted(index, state[0], 1, self.x_up)
-        return self._shifted(index, state[0], -1, self.x_down, out), state[1] * self.x_den
-
-    def _y(self, index, state):
-        out = self._shifted(index, state[0], 1, self.y_up)
-        return self._shifted(index, state[0], -1, self.y_down, out), state[1] * self.x_den
-
-    x_den = 1
+    return domain.get_field()
 
 
-class _GaussBuilder(_Builder):
-    """The Gaussian-rational case: coefficients are pairs (real, imaginary) of ``ZZ[j, m]``
-    polynomials over a common integer denominator.
+_RINGS = {}
 
-    Python-int polynomial arithmetic is several times cheaper than Gaussian
-    rationals; ``Jx = (J+ + J-)/2`` only doubles the denominator and the
-    ``-i/2`` of ``Jy`` becomes a swap of the two parts.
+
+def _ring_for(n, domain):
+    key = (n, domain)
+    ring = _RINGS.get(key)
+    if ring is None:
+        symbols = tuple(Dummy(f"j{i}") for i in range(n)) + tuple(Dummy(f"m{i}") for i in range(n))
+        ring = _RINGS[key] = PolyRing(symbols, domain)
+    return ring
+
+
+def form_of_element(algebra, element, labels):
+    """The :class:`ActionForm` over ``labels`` of a kernel ``element`` of ``algebra`` (a ShiftAlgebra).
+
+    Every kernel label must be among ``labels`` and be an angular momentum
+    (checked by the callers, which word the error for their input).
     """
+    labels = tuple(labels)
+    n = len(labels)
+    source = algebra.domain
+    if source.is_ZZ or source.is_QQ or source.is_GaussianRing or source.is_GaussianField:
+        domain = _field(source)
 
-    x_den = 2
+        def convert(coeff, source):
+            return domain.convert_from(coeff, source)
+    else:
+        # symbolic coefficients: the field SymPy constructs for their values (the kernel's own
+        # domain may use internal generators), so the closed form is in the user's symbols
+        values = {c: source.to_sympy(c) for key in element for _, c in algebra.terms(element[key])}
+        domain, _ = construct_domain(sorted(set(values.values()), key=default_sort_key) or [S.One], field=True)
 
-    def work_domain(self, domain):
-        return ZZ
+        def convert(coeff, source):
+            return domain.from_sympy(values[coeff])
+    ring = _ring_for(n, domain)
+    where = [labels.index(label) for label in algebra.labels]
+    jv, mv = ring.gens[:n], ring.gens[n:]
+    casimir = {}
+    powers = {}
 
-    def setup(self):
-        self.x_up = self.x_down = None
-        self.y_up, self.y_down = "-i", "+i"
+    def power(kind, i, e):
+        key = (kind, i, e)
+        hit = powers.get(key)
+        if hit is None:
+            if kind == "q":
+                base = casimir.get(i)
+                if base is None:
+                    base = casimir[i] = jv[i] * (jv[i] + 1)
+            else:
+                base = mv[i]
+            hit = powers[key] = base ** e
+        return hit
 
-    def start(self):
-        return {(0,) * len(self.labels): (self.ring.one, self.ring.zero)}, 1
-
-    def scale(self, terms, expr):
-        value = self.domain.from_sympy(expr)
-        den = _lcm(value.x.denominator, value.y.denominator)
-        a, b = int(value.x * den), int(value.y * den)
-        out = {}
-        for k, (re_, im_) in terms.items():
-            out[k] = (re_ * a - im_ * b, re_ * b + im_ * a)
-        return out, den
-
-    def mul_poly(self, c, poly):
-        re_, im_ = c
-        return (re_ * poly if re_ else re_, im_ * poly if im_ else im_)
-
-    def mul_ground(self, c, ground):
-        re_, im_ = c
-        if ground == "-i":
-            return (im_, -re_)
-        return (-im_, re_)
-
-    def add(self, a, b):
-        return (a[0] + b[0], a[1] + b[1])
-
-    def is_zero(self, c):
-        return not c[0] and not c[1]
-
-    def times_int(self, c, k):
-        return (c[0] * k, c[1] * k)
-
-    def result(self, state):
-        terms, den = state
-        field_ring = PolyRing(self.ring.symbols, self.domain)
-        inv = self.domain.convert(Rational(1, den))
-        unit = self.domain.from_sympy(I) * inv
-        return {k: re_.set_ring(field_ring).mul_ground(inv) + im_.set_ring(field_ring).mul_ground(unit)
-                for k, (re_, im_) in terms.items()}
+    den = domain.convert(element.den) if element.den != 1 else None
+    integer = source.is_ZZ or source.is_GaussianRing
+    if integer:
+        # compose over ZZ (real and imaginary parts apart): Python ints are far cheaper than QQ_I
+        zring = _ring_for(n, ZZ)
+        jv, mv = zring.gens[:n], zring.gens[n:]
+        powers.clear()
+        casimir.clear()
+    terms = {}
+    for key in sorted(element):
+        if integer:
+            acc = _compose_integer(algebra, element[key], where, power, zring, ring, domain, source, element.den)
+        else:
+            acc = ring.zero
+            for mon, coeff in algebra.terms(element[key]):
+                term = ring.ground_new(convert(coeff, source))
+                for k, i in enumerate(where):
+                    gq, gm = algebra.var_index[k]
+                    if mon[gq]:
+                        term = term * power("q", i, mon[gq])
+                    if mon[gm]:
+                        term = term * power("m", i, mon[gm])
+                acc = acc + term
+        if den is not None and not integer:
+            acc = acc.quo_ground(den)
+        if acc:
+            shift = [0] * n
+            for k, i in enumerate(where):
+                shift[i] = key[k]
+            terms[tuple(shift)] = acc
+    return ActionForm(labels, ring, terms)
 
 
-def _lcm(a, b):
-    return a * b // gcd(a, b)
+def _compose_integer(algebra, poly, where, power, zring, ring, domain, source, den):
+    """``poly(J^2 -> j(j+1), Jz -> m) / den`` for integer (or Gaussian-integer) coefficients, into ``ring``."""
+    parts = [zring.zero, zring.zero]
+    gaussian = source.is_GaussianRing
+    for mon, coeff in algebra.terms(poly):
+        values = (int(coeff.x), int(coeff.y)) if gaussian else (int(coeff), 0)
+        factor = zring.one
+        for k, i in enumerate(where):
+            gq, gm = algebra.var_index[k]
+            if mon[gq]:
+                factor = factor * power("q", i, mon[gq])
+            if mon[gm]:
+                factor = factor * power("m", i, mon[gm])
+        for slot, value in enumerate(values):
+            if value:
+                parts[slot] = parts[slot] + factor * value
+    pairs = {}
+    for slot, part in enumerate(parts):
+        for monom, c in part.items():
+            pairs.setdefault(monom, [0, 0])[slot] = int(c)
+    out = {}
+    for monom, (x, y) in pairs.items():
+        if gaussian:
+            out[monom] = domain.new(QQ(x, den), QQ(y, den))
+        else:
+            out[monom] = QQ(x, den)
+    return ring.from_dict(out)
 
 
 _FORMS = {}
 _FORMS_MAX = 256
 
 
-def action_form(op, labels, method="action"):
-    """The :class:`ActionForm` of ``op`` over ``labels`` (cached).
+def action_form(op, labels):
+    """The :class:`ActionForm` of the angular-momentum polynomial ``op`` over ``labels`` (cached).
 
-    ``method="action"`` (default) applies the operator to a generic ket factor
-    by factor (this module); ``method="ladder"`` takes the polynomials from the
-    canonical form of :func:`amalgebra.algebra.ladder_terms`.  Both give the
-    same form; the tests compare them.
-
-    Raises :class:`~amalgebra.errors.OperatorError` when ``op`` contains a
+    ``labels`` are put in the package's label order
+    (:func:`amalgebra._validation.label_key`).  Raises
+    :class:`~amalgebra.errors.OperatorError` when ``op`` contains a
     noncommutative factor that is not a component of the angular momentum of
     one of ``labels`` (e.g. an operator of another label than the ket's).
+    Tensor components go through :func:`amalgebra.states.engine.compile_operator`.
 
     >>> from amalgebra.algebra import AngularMomentum
     >>> J = AngularMomentum("J")
     >>> list(action_form(J.x**2, ("J",)).terms)
     [(-2,), (0,), (2,)]
     """
-    labels = tuple(labels)
+    labels = tuple(sorted(labels, key=label_key))
     if not isinstance(op, Expr):
         raise OperatorError(f"op={op!r} must be a SymPy expression")
-    key = (op, labels, method)
+    key = (op, labels)
     form = _FORMS.get(key)
     if form is not None:
         return form
-    table = _table(labels)
-    scalars = []
-    _collect_scalars(op, table, labels, scalars)
-    consts = sorted({s for s in scalars if s != 0} | {-I / 2, I / 2, Rational(1, 2)}, key=default_sort_key)
-    domain, _ = construct_domain(consts)
-    n = len(labels)
-    symbols = tuple(Dummy(f"j{i}") for i in range(n)) + tuple(Dummy(f"m{i}") for i in range(n))
-    ring = PolyRing(symbols, domain)
-    if method == "action":
-        builder = (_GaussBuilder if domain == QQ_I else _Builder)(labels, table, symbols, domain)
-        terms = builder.result(builder.apply(op, builder.start()))
-    elif method == "ladder":
-        terms = _ladder_route(op, labels, symbols, ring)
-    else:
-        raise ConventionError(f"method={method!r} must be 'action' or 'ladder'")
-    form = ActionForm(labels, ring, domain, symbols, terms)
+    algebra, (element,) = kernel_of(op)
+    check_labels(algebra, labels, op)
+    form = form_of_element(algebra, element, labels)
     if len(_FORMS) >= _FORMS_MAX:
         _FORMS.pop(next(iter(_FORMS)))
     _FORMS[key] = form
     return form
 
 
-def _ladder_route(op, labels, symbols, ring):
-    from ..algebra import ladder_terms
-
-    n = len(labels)
-    jsq = {lab: symbols[i] * (symbols[i] + 1) for i, lab in enumerate(labels)}
-    mz = {lab: symbols[n + i] for i, lab in enumerate(labels)}
-    terms = {}
-    for key, value in ladder_terms(op, jsq, mz).items():
-        shifts = dict(key)
-        terms[tuple(shifts.get(lab, 0) for lab in labels)] = ring.from_expr(value)
-    return terms
+def check_labels(algebra, labels, op):
+    """Every label of the kernel ``algebra`` must be an angular momentum among ``labels``."""
+    for label, mode in zip(algebra.labels, algebra.modes):
+        if mode is not ANGULAR_MOMENTUM:
+            raise OperatorError(f"label={label!r} of op={op} is a {mode.kind} mode: it acts on Fock kets "
+                                f"(amalgebra.bosons), not on |j m> kets")
+        if label not in labels:
+            raise OperatorError(f"operator factor of label={label!r} in op={op} must act on one of the labels "
+                                f"of the state; the state carries {list(labels)}")
 
 
 def clear_caches():
-    """Empty the caches of action forms, generator tables and factorisations.
+    """Empty the caches of action forms and factorisations.
 
     >>> clear_caches()
     """
     _FORMS.clear()
-    _table.cache_clear()
-    _factor_cached.cache_clear()
+    _clear_exact()

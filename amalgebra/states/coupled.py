@@ -61,12 +61,11 @@ References
 .. [1] A. R. Edmonds, *Angular Momentum in Quantum Mechanics* (Princeton, 1957), ch. 3 (two momenta) and ch. 6 (three and more).
 """
 
-from functools import lru_cache
-
 from sympy import Add, Expr, Rational, S, Tuple, zeros
 
 from ..errors import QuantumNumberError, StateError
 from ..qnumbers import doubled, half_integer, triangle_doubled
+from ..results import CouplingMatrix
 from .kets import Ket, ProductKet, _DualState, _dual_pair, _label, components, from_components
 
 __all__ = [
@@ -82,14 +81,6 @@ __all__ = [
     "coupling_paths",
     "clear_caches",
 ]
-
-
-@lru_cache(maxsize=65536)
-def _cg(t1, tm1, t2, tm2, tj, tm):
-    from ..coupling import cg
-
-    return cg(Rational(t1, 2), Rational(tm1, 2), Rational(t2, 2), Rational(tm2, 2),
-              Rational(tj, 2), Rational(tm, 2))
 
 
 def _check_coupling(js2, inter2, tj, tm):
@@ -216,6 +207,9 @@ def coupled_ket(j1, j2, J, M, labels=("J", "S")):
 def coupled_chain(js, intermediates, J, M, labels):
     """The ket coupled in the order ``(((j1 j2) J12 j3) J123 ...) J M``.
 
+    Examples
+    ========
+
     >>> k = coupled_chain(["1/2"] * 3, ["1"], "3/2", "3/2", ("a", "b", "c"))
     >>> k.doit()
     |1/2, 1/2>_a|1/2, 1/2>_b|1/2, 1/2>_c
@@ -223,29 +217,21 @@ def coupled_chain(js, intermediates, J, M, labels):
     return CoupledKet(js, intermediates, J, M, labels)
 
 
-@lru_cache(maxsize=4096)
 def _expand_doubled(js2, inter2, tj, tm):
-    """{tuple of doubled m's: coefficient} of the coupled ket (doubled inputs)."""
+    """{tuple of doubled m's: coefficient} of the coupled ket (doubled inputs).
+
+    The chain is the coupling tree ``(((1 2) J12, 3) J123 ...) J``: the expansion
+    is the one of :func:`amalgebra.states.tree_kets.expand_doubled_tree`.
+    """
+    from .tree_kets import expand_doubled_tree
+
+    tops = [*inter2, tj]
+    node = ("0", js2[0])
+    for k in range(1, len(js2)):
+        node = (node, (str(k), js2[k]), tops[k - 1])
     if len(js2) == 1:
         return {(tm,): S.One}
-    prev_j = inter2[-1] if len(js2) > 2 else js2[0]
-    last = js2[-1]
-    out = {}
-    for tml in range(-last, last + 1, 2):
-        tmp = tm - tml
-        if abs(tmp) > prev_j:
-            continue
-        c = _cg(prev_j, tmp, last, tml, tj, tm)
-        if c == 0:
-            continue
-        if len(js2) == 2:
-            sub = {(tmp,): S.One}
-        else:
-            sub = _expand_doubled(js2[:-1], inter2[:-1], prev_j, tmp)
-        for ms, c2 in sub.items():
-            key = ms + (tml,)
-            out[key] = out.get(key, S.Zero) + c * c2
-    return {k: v for k, v in out.items() if v != 0}
+    return {tuple(t for _, t in key): c for key, c in expand_doubled_tree(node, tm).items()}
 
 
 def _expansion(coupled):
@@ -262,6 +248,9 @@ def _expansion(coupled):
 
 def to_uncoupled(state):
     """Expand every coupled ket of a state into product kets.
+
+    Examples
+    ========
 
     >>> to_uncoupled(coupled_ket("1/2", "1/2", 1, 1, labels=("A", "B")))
     |1/2, 1/2>_A|1/2, 1/2>_B
@@ -346,7 +335,7 @@ def coupling_matrix(js, labels):
     for col, k in enumerate(cpl):
         for basis, c in k._as_product_kets().items():
             U[index[basis], col] = c
-    return U, unc, cpl
+    return CouplingMatrix((U, unc, cpl))  # a tuple that displays as LaTeX in notebooks
 
 
 def uncoupled_to_coupled(state, labels=None):
@@ -400,5 +389,6 @@ def clear_caches():
 
     >>> clear_caches()
     """
-    _cg.cache_clear()
-    _expand_doubled.cache_clear()
+    from .tree_kets import expand_doubled_tree
+
+    expand_doubled_tree.cache_clear()

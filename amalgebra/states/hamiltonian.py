@@ -6,22 +6,36 @@ Explanation
 :func:`hamiltonian_matrix` takes an operator over several labels, a numeric
 :math:`j` per label and a basis:
 
-* ``"uncoupled"``: product kets in Kronecker order (first label slowest,
-  :math:`m = j, \dots, -j`), see :func:`~amalgebra.states.coupled.uncoupled_basis`;
+* ``"uncoupled"``: product kets in the package's one order
+  (:mod:`amalgebra.states.basis`: labels in label order, the first outermost,
+  :math:`m = j, \dots, -j`; a label may be given a list of j values, a direct
+  sum of multiplets, j in the order given), the basis of
+  :func:`~amalgebra.matrices.explicit.to_matrix` too;
 * ``"coupled"``: coupled kets :math:`|((j_1 j_2) J_{12} \dots) F M\rangle` in
   the order of the labels, see :func:`~amalgebra.states.coupled.coupled_basis`;
 * a list of states (kets, coupled kets or combinations), which must be
   orthonormal (checked exactly; :class:`~amalgebra.errors.StateError` otherwise).
 
-It returns a :class:`HamiltonianMatrix` holding the exact SymPy matrix
-:math:`H_{ik} = \langle b_i|H|b_k\rangle`, the basis, and the blocks: basis
-states are grouped by total :math:`M` (when each basis state has one); if the
-matrix has no element between different groups, :math:`M` is reported as
-conserved.  In a coupled basis the groups are refined by the total angular
-momentum :math:`F` when that is conserved too (a scalar operator).  When
-neither holds, blocks are the connected components of the nonzero pattern.
+The operator may contain anything :func:`~amalgebra.algebra.canonical`
+accepts on these labels, tensor and vector components included (by the
+Wigner-Eckart theorem, ``reduced``/``convention`` as in
+:func:`~amalgebra.matrices.explicit.to_matrix`).  It returns a :class:`HamiltonianMatrix`
+holding the exact immutable SymPy matrix
+:math:`H_{ik} = \langle b_i|H|b_k\rangle` (``.matrix``, an
+``ImmutableMatrix``; ``sympify(result)`` gives it too, so it enters Matrix
+arithmetic), the :class:`~amalgebra.states.basis.Basis` (``.basis``), and the
+blocks: basis states are grouped by total :math:`M` (when each basis state
+has one); if the matrix has no element between different groups, :math:`M`
+is reported as conserved.  In a coupled basis the groups are refined by the
+total angular momentum :math:`F`, on a product basis by the :math:`j` of each
+label given a list of j values, and by the parity :math:`(-1)^{\sum l}` over the
+labels given several integer j (orbital states), when those are conserved too.  Within the
+groups, blocks are the connected components of the nonzero pattern.
 :meth:`HamiltonianMatrix.eigenvalues` returns the exact eigenvalues block by
-block (``None`` for a block SymPy cannot solve).
+block as :class:`~amalgebra.states.eigen.Eigenvalues` objects, never ``None``:
+a factor of the characteristic polynomial that has no closed form (or that
+the time budget did not reach) is listed, with the factored characteristic
+polynomial and ``.numeric(values)``.
 
 Examples
 ========
@@ -53,7 +67,8 @@ Parameters
 ==========
 
 op : operator expression over the labels of ``js``
-js : dict label -> numeric j (the dict order is the coupling order), or a list of (label, j) pairs
+js : dict label -> numeric j or list of j values (the dict order is the coupling order of ``basis="coupled"``),
+     or a list of (label, j) pairs
 basis : ``"uncoupled"``, ``"coupled"`` or a list of states
 
 See Also
@@ -67,105 +82,176 @@ References
 .. [1] G. Breit and I. I. Rabi, Phys. Rev. 38, 2082 (1931).
 """
 
-from sympy import Add, Dummy, S, conjugate, expand_mul, eye, roots, sqrt, zeros
-from sympy.polys.polyerrors import PolynomialError
+from sympy import Add, ImmutableMatrix, S, conjugate, expand_mul, eye, zeros
 from sympy.printing.defaults import Printable
 
 from ..notation import NotationHooks
 from ..errors import StateError
 from ..qnumbers import half_integer
-from .coupled import CoupledKet, coupled_basis, uncoupled_basis
-from .action import _target
-from .kets import _factor_map, _label_key, components
-from .actionform import action_form
+from .basis import Basis, product_basis, read_space
+from .coupled import CoupledKet, coupled_basis
+from .eigen import DEFAULT_TIME_BUDGET, block_eigenvalues
+from .engine import compile_operator
+from .kets import Ket, ProductKet, _factor_map, _label_key, components
 
-__all__ = ["hamiltonian_matrix", "HamiltonianMatrix", "Block", "operator_matrix"]
+__all__ = ["hamiltonian_matrix", "HamiltonianMatrix", "OperatorMatrix", "Block", "operator_matrix"]
 
 
 class Block:
-    """One diagonal block: ``indices`` into the basis, ``quantum_numbers`` (dict), ``matrix``."""
+    """One diagonal block: ``indices`` into the basis, ``quantum_numbers`` (dict), ``matrix`` (immutable)."""
 
     __slots__ = ("indices", "quantum_numbers", "matrix")
 
     def __init__(self, indices, quantum_numbers, matrix):
         self.indices = tuple(indices)
         self.quantum_numbers = dict(quantum_numbers)
-        self.matrix = matrix
+        self.matrix = ImmutableMatrix(matrix)
 
     @property
     def size(self):
         return len(self.indices)
 
-    def eigenvalues(self, general=False):
-        """``{eigenvalue: multiplicity}``, or ``None`` when SymPy cannot solve the block.
+    def eigenvalues(self, time_budget=DEFAULT_TIME_BUDGET):
+        """The :class:`~amalgebra.states.eigen.Eigenvalues` of the block (never ``None``).
 
-        Blocks with one or two symbols are solved when the characteristic
-        polynomial factors into pieces of degree <= 2 (2 x 2 blocks always,
-        by the quadratic formula).  Numeric blocks go through
-        ``Matrix.eigenvals`` (cubic and quartic formulas included), 2 x 2
-        blocks with more symbols through the quadratic formula.  Larger blocks
-        with more than two symbols are not attempted (multivariate
-        factorisation can take minutes): ``None`` is returned unless
-        ``general=True``, which tries ``Matrix.eigenvals`` whatever the cost.
+        Factors of the characteristic polynomial are solved exactly (cubic
+        and quartic formulas included) while ``time_budget`` seconds last;
+        what is left is listed in ``.unsolved`` with the reason.
         """
-        mat = self.matrix
-        if self.size == 1:
-            return {mat[0, 0]: 1}
-        nsym = len(mat.free_symbols)
-        try:
-            if general or nsym == 0 and self.size > 2:
-                values = mat.eigenvals()
-            elif 0 < nsym <= 2:
-                # few symbols: factor the characteristic polynomial (cheap, and it gives clean roots)
-                lam = Dummy("lambda")
-                poly = mat.charpoly(lam, simplify=lambda e: e.expand())
-                values = roots(poly, cubics=False, quartics=False, quintics=False)
-                if sum(values.values()) != self.size and self.size == 2:
-                    values = _quadratic(mat)
-            elif self.size == 2:
-                values = _quadratic(mat)
-            else:
-                return None
-        except (NotImplementedError, PolynomialError, ValueError):
-            return None
-        if sum(values.values()) != self.size:
-            return None
-        return dict(values)
+        return block_eigenvalues(self.matrix, time_budget)
 
     def __repr__(self):
         qn = ", ".join(f"{k}={v}" for k, v in self.quantum_numbers.items())
         return f"Block({qn}, size={self.size})"
 
 
-def _quadratic(mat):
-    """Eigenvalues of a 2 x 2 matrix by the quadratic formula."""
-    half_trace = ((mat[0, 0] + mat[1, 1]) / 2).expand()
-    disc = (((mat[0, 0] - mat[1, 1]) / 2) ** 2 + mat[0, 1] * mat[1, 0]).expand()
-    if disc == 0:
-        return {half_trace: 2}
-    root = sqrt(disc)
-    return {half_trace + root: 1, half_trace - root: 1}
+class OperatorMatrix(Printable):
+    """An exact matrix with its basis: ``matrix`` (``ImmutableMatrix``) and ``basis`` (:class:`Basis`).
+
+    ``sympify(obj)`` and ``obj._sympy_()`` give the matrix, so it enters SymPy
+    Matrix arithmetic (``hm.matrix * v``, ``sympify(hm) * v``); :meth:`index`
+    and :meth:`select` pass through to the basis; :meth:`blocks` splits by
+    conserved quantum numbers.
+
+    Examples
+    ========
+
+    >>> from sympy import Rational, eye, sympify
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> from amalgebra.matrices.explicit import to_matrix
+    >>> J = AngularMomentum("J")
+    >>> om = to_matrix(J.x, {"J": "1/2"}, with_basis=True)
+    >>> om.shape, [str(state) for state in om.basis]
+    ((2, 2), ['|1/2, 1/2>_J', '|1/2, -1/2>_J'])
+    >>> om.matrix
+    Matrix([
+    [  0, 1/2],
+    [1/2,   0]])
+    >>> om.select(M=Rational(-1, 2)), om.index(om.basis[1])
+    ((1,), 1)
+
+    For spin 1/2, :math:`J_x^2 = 1/4` (common practice):
+
+    >>> sympify(om) ** 2 == eye(2) / 4
+    True
+    """
+
+    __slots__ = ("matrix", "basis")
+
+    def __init__(self, matrix, basis):
+        self.matrix = ImmutableMatrix(matrix)
+        self.basis = basis if isinstance(basis, Basis) else Basis(basis, ())
+
+    def _sympy_(self):
+        return self.matrix
+
+    @property
+    def shape(self):
+        return self.matrix.shape
+
+    def index(self, state):
+        """Row/column of ``state`` (see :meth:`Basis.index`)."""
+        return self.basis.index(state)
+
+    def select(self, **wanted):
+        """Indices of the basis states with the given quantum numbers (see :meth:`Basis.select`)."""
+        return self.basis.select(**wanted)
+
+    def submatrix(self, indices):
+        """The immutable submatrix on ``indices`` (rows and columns)."""
+        return self.matrix.extract(list(indices), list(indices))
+
+    def blocks(self):
+        """``(blocks, conserved)``: diagonal blocks by conserved quantum numbers (module docstring)."""
+        return _find_blocks(self.matrix, self.basis)
+
+    def __repr__(self):
+        return f"OperatorMatrix(size={self.matrix.shape[0]}, basis={self.basis!r})"
+
+    def _sympystr(self, printer):
+        return repr(self)
+
+    def _latex(self, printer, exp=None):
+        return printer._print(self.matrix)
+
+    def _pretty(self, printer):
+        return printer._print(self.matrix)
 
 
-class HamiltonianMatrix(NotationHooks, Printable):
+class HamiltonianMatrix(NotationHooks, OperatorMatrix):
     """The result of :func:`hamiltonian_matrix`: ``matrix``, ``basis``, ``blocks``, ``conserved``.
 
     Printable: ``str``/``repr`` give a summary; LaTeX and pretty give the matrix (Jupyter shows it).
+
+    Examples
+    ========
+
+    >>> from sympy import symbols
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> from amalgebra.states.hamiltonian import hamiltonian_matrix
+    >>> b = symbols("b", positive=True)
+    >>> S = AngularMomentum("S")
+    >>> hm = hamiltonian_matrix(b * S.z, {"S": 1})
+    >>> hm
+    HamiltonianMatrix(size=3, conserved=('M',), blocks=[1, 1, 1])
+    >>> [(blk.quantum_numbers["M"], blk.matrix[0, 0]) for blk in hm.blocks]
+    [(1, b), (0, 0), (-1, -b)]
+
+    Identity check: the block eigenvalues together are those of the whole matrix:
+
+    >>> sorted((v for _, ev in hm.eigenvalues() for v in ev), key=str) == sorted(hm.matrix.eigenvals(), key=str)
+    True
     """
 
-    __slots__ = ("matrix", "basis", "blocks", "conserved")
+    __slots__ = ("blocks_", "conserved")
+    _notation_key = "hamiltonian_matrix"
 
     def __init__(self, matrix, basis, blocks, conserved):
-        self.matrix = matrix
-        self.basis = list(basis)
-        self.blocks = list(blocks)
+        OperatorMatrix.__init__(self, matrix, basis)
+        self.blocks_ = list(blocks)
         self.conserved = tuple(conserved)
 
-    def eigenvalues(self, general=False):
-        """``[(block, {eigenvalue: multiplicity} or None), ...]`` in block order (see :meth:`Block.eigenvalues`)."""
-        return [(blk, blk.eigenvalues(general)) for blk in self.blocks]
+    def __repr__(self):
+        return str(self)    # the summary of the notation hook, not OperatorMatrix's
 
-    _notation_key = "hamiltonian_matrix"
+    @property
+    def blocks(self):
+        """The diagonal blocks (a list of :class:`Block`)."""
+        return self.blocks_
+
+    def eigenvalues(self, time_budget=DEFAULT_TIME_BUDGET):
+        """``[(block, Eigenvalues), ...]`` in block order (see :meth:`Block.eigenvalues`).
+
+        ``time_budget`` (seconds) is shared by all blocks: once spent, the
+        cubic and quartic factors left are reported as unsolved.
+        """
+        import time
+
+        end = time.perf_counter() + time_budget
+        out = []
+        for blk in self.blocks_:
+            out.append((blk, blk.eigenvalues(max(0.0, end - time.perf_counter()))))
+        return out
 
 
 def _read_js(js):
@@ -175,8 +261,7 @@ def _read_js(js):
     labels = [str(lab) for lab, _ in pairs]
     if len(set(labels)) != len(labels):
         raise StateError(f"labels={labels} must be distinct")
-    values = [half_integer(j, f"j[{lab}]", nonnegative=True) for lab, j in pairs]
-    return labels, values
+    return labels, dict(pairs)
 
 
 def operator_matrix(op, kets):
@@ -202,18 +287,20 @@ def operator_matrix(op, kets):
 
 
 def _operator_entries(op, kets):
-    """``{(row, col): value}`` of the nonzero entries of ``op`` on product kets."""
+    """``{(row, col): value}`` of the nonzero entries of ``op`` on product kets (through the engine)."""
     index = {k: i for i, k in enumerate(kets)}
     entries = {}
     for col, k in enumerate(kets):
         fm = _factor_map(k)
         labels = tuple(sorted(fm, key=_label_key))
-        form = action_form(op, labels)
-        for shift, amp in form.closed_form(fm).items():
-            target = _target(labels, fm, shift)
-            row = index.get(target)
+        compiled = compile_operator(op, labels)
+        start = tuple(fm[lab] for lab in labels)
+        for target, amp in compiled.act({start: S.One}).items():
+            kets_ = [Ket(j, m, lab) for lab, (j, m) in zip(labels, target)]
+            state = kets_[0] if len(kets_) == 1 else ProductKet._unchecked(kets_)
+            row = index.get(state)
             if row is None:
-                raise StateError(f"kets must span a space closed under op: {target} is missing")
+                raise StateError(f"kets must span a space closed under op: {state} is missing")
             entries[(row, col)] = amp
     return entries
 
@@ -237,48 +324,7 @@ def _sandwich(left, entries, right, size):
     return mat
 
 
-def _total_m(state_components):
-    ms = set()
-    for basis in state_components:
-        ms.add(sum((m for _, m in _factor_map(basis).values()), S.Zero))
-    return ms.pop() if len(ms) == 1 else None
-
-
-def _blocks_by(groups, mat):
-    """True when ``mat`` has no element between different groups (keys -> index lists)."""
-    owner = {}
-    for key, idx in groups.items():
-        for i in idx:
-            owner[i] = key
-    n = mat.shape[0]
-    for r in range(n):
-        for c in range(n):
-            if owner[r] != owner[c] and mat[r, c] != 0:
-                return False
-    return True
-
-
-def _components_blocks(mat):
-    n = mat.shape[0]
-    parent = list(range(n))
-
-    def find(a):
-        while parent[a] != a:
-            parent[a] = parent[parent[a]]
-            a = parent[a]
-        return a
-
-    for r in range(n):
-        for c in range(n):
-            if mat[r, c] != 0:
-                parent[find(r)] = find(c)
-    groups = {}
-    for i in range(n):
-        groups.setdefault(find(i), []).append(i)
-    return sorted(groups.values())
-
-
-def hamiltonian_matrix(op, js, basis="uncoupled"):
+def hamiltonian_matrix(op, js, basis="uncoupled", *, reduced=None, convention="edmonds"):
     """The exact matrix of ``op`` in a basis, with its blocks (see the module docstring).
 
     Examples
@@ -295,81 +341,141 @@ def hamiltonian_matrix(op, js, basis="uncoupled"):
     ('M', 'F')
     >>> sorted({b.quantum_numbers["F"]: b.matrix[0, 0] for b in hm.blocks}.items())
     [(1/2, -5*A/2), (3/2, -A), (5/2, 3*A/2)]
+
+    A direct sum of multiplets, the same basis as :func:`~amalgebra.matrices.explicit.to_matrix`:
+
+    >>> from amalgebra.matrices.explicit import to_matrix
+    >>> L = AngularMomentum("L")
+    >>> hs = hamiltonian_matrix(A * L.squared + L.z, {"L": [0, 1]})
+    >>> hs.matrix == to_matrix(A * L.squared + L.z, {"L": [0, 1]}), hs.conserved
+    (True, ('M', 'j_L'))
+    >>> hs.select(M=0)
+    (0, 2)
     """
-    labels, values = _read_js(js)
+    from ..matrices.explicit import to_matrix
+
+    labels, given = _read_js(js)
+    spaces = read_space(given, "js")
+    unc = product_basis(given)
     if isinstance(basis, str):
         if basis == "uncoupled":
-            states = uncoupled_basis(values, labels)
-        elif basis == "coupled":
-            if len(labels) < 2:
-                raise StateError("basis='coupled' needs at least two labels")
-            states = coupled_basis(values, labels)
-        else:
+            mat = to_matrix(op, given, reduced=reduced, convention=convention)
+            return HamiltonianMatrix(mat, unc, *_find_blocks(mat, unc))
+        if basis != "coupled":
             raise StateError(f"basis={basis!r} must be 'uncoupled', 'coupled' or a list of states")
+        if len(labels) < 2:
+            raise StateError("basis='coupled' needs at least two labels")
+        if any(len(spaces[label]) != 1 for label in labels):
+            raise StateError("basis='coupled' needs one j per label (a direct sum has no single coupling)")
+        states = coupled_basis([spaces[label][0] for label in labels], labels)
+        checked = True
     else:
         states = list(basis)
         if not states:
             raise StateError("basis must hold at least one state")
+        checked = False
     comps = [components(s, name=f"basis[{i}]") for i, s in enumerate(states)]
-    unc = uncoupled_basis(values, labels)
     for i, comp in enumerate(comps):
         for b in comp:
-            fm = _factor_map(b)
-            if sorted(fm) != sorted(labels):
+            if sorted(_factor_map(b)) != sorted(labels):
                 raise StateError(f"basis[{i}]={states[i]} must carry the labels {sorted(labels)}")
-    index = {k: i for i, k in enumerate(unc)}
-    cols = [{index[b]: c for b, c in comp.items()} for comp in comps]
-    uncoupled = isinstance(basis, str) and basis == "uncoupled"
-    if not uncoupled:
+    index = {k: i for i, k in enumerate(unc.states)}
+    cols = []
+    for i, comp in enumerate(comps):
+        try:
+            cols.append({index[b]: c for b, c in comp.items()})
+        except KeyError as exc:
+            raise StateError(f"basis[{i}]={states[i]} must lie in the space js={given}: "
+                             f"{exc.args[0]} is outside") from None
+    if not checked:
         identity = {(i, i): S.One for i in range(len(unc))}
         if _sandwich(cols, identity, cols, len(unc)) != eye(len(states)):
             raise StateError("basis must be orthonormal (its Gram matrix is not the identity)")
-    entries = _operator_entries(op, unc)
-    if uncoupled:
-        mat = zeros(len(unc), len(unc))
-        for (r, c), v in entries.items():
-            mat[r, c] = v
-    else:
-        mat = _sandwich(cols, entries, cols, len(unc))
-    return HamiltonianMatrix(mat, states, *_find_blocks(mat, states, comps))
+    full = to_matrix(op, given, reduced=reduced, convention=convention)
+    entries = {(r, c): full[r, c] for r in range(full.rows) for c in range(full.cols) if full[r, c] != 0}
+    mat = _sandwich(cols, entries, cols, len(unc))
+    target = Basis(states, tuple(spaces))
+    return HamiltonianMatrix(mat, target, *_find_blocks(mat, target))
 
 
-def _find_blocks(mat, states, comps):
-    ms = [_total_m(c) for c in comps]
-    conserved = []
-    if all(m is not None for m in ms):
-        groups = {}
-        for i, m in enumerate(ms):
-            groups.setdefault(m, []).append(i)
-        if _blocks_by(groups, mat):
-            conserved.append("M")
-            if all(isinstance(s, CoupledKet) for s in states):
-                fgroups = {}
-                for i, s in enumerate(states):
-                    fgroups.setdefault((s.intermediates, s.J, s.M), []).append(i)
-                if _blocks_by(_merge_paths(fgroups, states), mat):
-                    conserved.append("F")
-                    keys = sorted(_merge_paths(fgroups, states).items(),
-                                  key=lambda kv: (-kv[0][1], -kv[0][0]))
-                    return [Block(idx, {"M": M, "F": F}, mat.extract(idx, idx))
-                            for (M, F), idx in keys], conserved
-            keys = sorted(groups.items(), key=lambda kv: -kv[0])
-            return [Block(idx, {"M": M}, mat.extract(idx, idx)) for M, idx in keys], conserved
-    blocks = _components_blocks(mat)
+def _blocks_by(groups, nonzero):
+    """True when no nonzero entry ``(r, c)`` joins different groups (keys -> index lists)."""
+    owner = {}
+    for key, idx in groups.items():
+        for i in idx:
+            owner[i] = key
+    return all(owner[r] == owner[c] for r, c in nonzero)
+
+
+def _components(nonzero, indices):
+    """Connected components of the nonzero pattern restricted to ``indices`` (sorted lists)."""
+    parent = {i: i for i in indices}
+
+    def find(a):
+        while parent[a] != a:
+            parent[a] = parent[parent[a]]
+            a = parent[a]
+        return a
+
+    for r, c in nonzero:
+        if r in parent and c in parent:
+            parent[find(r)] = find(c)
+    groups = {}
+    for i in indices:
+        groups.setdefault(find(i), []).append(i)
+    return sorted(groups.values())
+
+
+def _candidates(basis):
+    """``[(name, per-state value or None)]``: the quantum numbers a block may be labelled by."""
+    n = len(basis)
+    qns = [basis.quantum_numbers(i) for i in range(n)]
     out = []
-    for idx in blocks:
-        qn = {}
-        mset = {ms[i] for i in idx}
-        if len(mset) == 1 and None not in mset:
-            qn["M"] = mset.pop()
-        out.append(Block(idx, qn, mat.extract(idx, idx)))
-    return out, conserved
+    ms = [qn.get("M") for qn in qns]
+    if all(m is not None for m in ms):
+        out.append(("M", ms))
+    fs = [qn.get("F") for qn in qns]
+    if all(f is not None for f in fs) and all(isinstance(s, CoupledKet) for s in basis.states):
+        out.append(("F", fs))
+    if basis.values is not None:
+        orbital = []
+        for k, label in enumerate(basis.labels):
+            js = [qn[label][0] for qn in qns]
+            if len(set(js)) > 1:
+                out.append((f"j_{label}", js))
+                if all(j.is_integer for j in js):
+                    orbital.append(label)
+        if orbital:
+            # parity (-1)^(sum of l) over the labels given several integer j (orbital states)
+            out.append(("parity", [(-1) ** int(sum(qn[label][0] for label in orbital)) for qn in qns]))
+    return out
 
 
-def _merge_paths(fgroups, states):
-    """Group coupled states by (M, F) only (different intermediate paths share a block)."""
-    out = {}
-    for (inter, F, M), idx in fgroups.items():
-        out.setdefault((M, F), []).extend(idx)
-    return {k: sorted(v) for k, v in out.items()}
-
+def _find_blocks(mat, basis):
+    n = mat.shape[0]
+    nonzero = [key for key, value in mat.todok().items() if value != 0]
+    conserved, keys = [], [() for _ in range(n)]
+    for name, values in _candidates(basis):
+        groups = {}
+        for i in range(n):
+            groups.setdefault(keys[i] + (values[i],), []).append(i)
+        if _blocks_by(groups, nonzero):
+            refined = len(groups) > len(set(keys))
+            if name != "parity" or refined:     # parity is reported only when it splits something new
+                conserved.append(name)
+                keys = [keys[i] + (values[i],) for i in range(n)]
+    groups = {}
+    for i in range(n):
+        groups.setdefault(keys[i], []).append(i)
+    # order: by the conserved values, M and F descending, then first index
+    order = sorted(groups, key=lambda key: tuple(-v for v in key))
+    blocks = []
+    for key in order:
+        for idx in _components(nonzero, groups[key]):
+            qn = dict(zip(conserved, key))
+            if "M" not in qn:
+                ms = {basis.quantum_numbers(i).get("M") for i in idx}
+                if len(ms) == 1 and None not in ms:
+                    qn["M"] = ms.pop()
+            blocks.append(Block(idx, qn, mat.extract(idx, idx)))
+    return blocks, conserved

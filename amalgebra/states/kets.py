@@ -61,15 +61,14 @@ References
 .. [1] A. R. Edmonds, *Angular Momentum in Quantum Mechanics* (Princeton, 1957), ch. 2.
 """
 
-import re
 from fractions import Fraction
-from functools import lru_cache
 
 from sympy import Add, Basic, Expr, KroneckerDelta, Mul, S, adjoint, sqrt
 from sympy.core.symbol import Str
 
+from .._validation import check_label, label_key
 from ..notation import NotationHooks
-from ..errors import NotNumericError, QuantumNumberError, ProjectionError, StateError
+from ..errors import NotNumericError, OperatorError, QuantumNumberError, ProjectionError, StateError
 from ..qnumbers import doubled, doubled_projection, is_numeric, quantum_number
 
 __all__ = [
@@ -86,25 +85,14 @@ __all__ = [
     "inner",
     "norm",
     "normalize",
+    "register_state_family",
 ]
 
-_LABEL = re.compile(r"^[A-Za-z][A-Za-z0-9_]*$")
-
-
 def _label(label):
-    if isinstance(label, Str):
-        label = label.name
-    if not isinstance(label, str) or _LABEL.match(label) is None:
-        raise StateError(f"label={label!r} must be a name such as 'J', 'S' or 'I1'")
-    return Str(label)
+    return Str(check_label(label, "label", StateError))
 
 
-@lru_cache(maxsize=4096)
-def _label_key(label):
-    """Natural order of labels: 'S2' before 'S10'."""
-    match = re.match(r"^(.*?)(\d*)$", label)
-    stem, digits = match.groups()
-    return (stem, int(digits) if digits else -1, label)
+_label_key = label_key  # the package's one label order (amalgebra._validation)
 
 
 def _validated(j, m, label):
@@ -139,6 +127,33 @@ class _DualState(NotationHooks):
     """
 
     __slots__ = ()
+    # Above Expr's 10.0, so that ``J.z + ket`` and ``(2*J.z) * ket`` reach the checks below
+    # (SymPy hands a binary operation to the operand of higher priority); below matrices' 10.01.
+    _op_priority = 10.005
+
+    def __add__(self, other):
+        _check_sum(self, other)
+        return super().__add__(other)
+
+    def __radd__(self, other):
+        _check_sum(self, other)
+        return super().__radd__(other)
+
+    def __sub__(self, other):
+        _check_sum(self, other)
+        return super().__sub__(other)
+
+    def __rsub__(self, other):
+        _check_sum(self, other)
+        return super().__rsub__(other)
+
+    def __mul__(self, other):
+        _check_product(self, other)
+        return super().__mul__(other)
+
+    def __rmul__(self, other):
+        _check_product(other, self)
+        return super().__rmul__(other)
 
     def dual(self):
         """The dual state (ket to bra, bra to ket) with the same quantum numbers."""
@@ -158,6 +173,85 @@ def _dual_pair(ket_class, bra_class):
     """Declare two :class:`_DualState` classes each other's dual."""
     _DUALS[ket_class] = bra_class
     _DUALS[bra_class] = ket_class
+    _KET_SIDE.add(ket_class)
+
+
+_KET_SIDE = set()
+
+
+# --------------------------------------------------------------------------- type discipline
+# ``+`` and ``*`` with a state on one side check what they are asked to build (issue 17):
+# an operator plus a state, a ket plus a bra, states of different spaces (label sets) added,
+# and a bra of one space times a ket of another are refused with a typed error.
+
+def _side(obj):
+    """``"ket"`` or ``"bra"`` for a state object, ``None`` for anything else."""
+    cls = type(obj)
+    if cls not in _DUALS:
+        return None
+    return "ket" if cls in _KET_SIDE else "bra"
+
+
+def _labels(state):
+    """The labels of the space of a state (its ``label``, ``labels`` or Fock ``modes``), sorted."""
+    for name in ("labels", "modes"):
+        found = getattr(state, name, None)
+        if found is not None:
+            return sorted(found)
+    label = getattr(state, "label", None)
+    return None if label is None else [label]  # None: a family that names no labels is not compared
+
+
+def _nc_factors(expr):
+    """The noncommutative factors of a product, in order (a power stands for its base)."""
+    factors = expr.args_cnc()[1] if expr.is_Mul else [expr]
+    return [f.base if f.is_Pow else f for f in factors]
+
+
+def _kind(term):
+    """``(kind, labels)`` of one term of a sum: kind is scalar, operator, ket, bra or other."""
+    if term.is_commutative:
+        return "scalar", None
+    factors = _nc_factors(term)
+    sides = [_side(f) for f in factors]
+    if sides[-1] == "ket" and "bra" not in sides:
+        return "ket", _labels(factors[-1])
+    if sides[0] == "bra" and "ket" not in sides:
+        return "bra", _labels(factors[0])
+    if not any(sides) and not any(f.has(*_DUALS) for f in factors):
+        return "operator", None
+    return "other", None
+
+
+def _check_sum(state, other):
+    if not isinstance(other, Basic):
+        return  # numbers: SymPy's own conversion decides
+    side, labels = _side(state), _labels(state)
+    for term in Add.make_args(other):
+        kind, term_labels = _kind(term)
+        if kind == "operator":
+            raise OperatorError(f"other={term} must not be an operator: an operator and a {side} cannot "
+                                f"be added (apply the operator to the state: apply(op, state))")
+        if kind in ("ket", "bra") and kind != side:
+            raise StateError(f"other={term} must be a {side} too: a ket and a bra cannot be added")
+        if kind == side and None not in (term_labels, labels) and term_labels != labels:
+            raise StateError(f"other={term} must be a {side} of the same space as {state}: labels "
+                             f"{term_labels} and {labels} differ")
+
+
+def _check_product(left, right):
+    """Refuse a bra of one space times a ket of another (also around operators: <a|_J X |b>_L)."""
+    if not (isinstance(left, Basic) and isinstance(right, Basic)):
+        return
+    if left.is_commutative or right.is_commutative:
+        return
+    lf, rf = _nc_factors(left), _nc_factors(right)
+    for bra_, ket_ in ((lf[-1], rf[0]), (lf[0], rf[-1])):
+        if _side(bra_) == "bra" and _side(ket_) == "ket" and None not in (_labels(bra_), _labels(ket_)) \
+                and _labels(bra_) != _labels(ket_):
+            raise StateError(f"bra={bra_} and ket={ket_} must carry the same labels, got "
+                             f"{_labels(bra_)} and {_labels(ket_)}: a bra of one space times a ket of "
+                             f"another is not an inner product")
 
 
 class _StateMixin(_DualState):
@@ -325,6 +419,9 @@ _BRAS = (Bra, ProductBra)
 def ket(j, m, label="J"):
     """The ket ``|j m>_label`` (see :class:`Ket`).
 
+    Examples
+    ========
+
     >>> ket("1/2", "-1/2", "S")
     |1/2, -1/2>_S
     """
@@ -334,6 +431,9 @@ def ket(j, m, label="J"):
 def bra(j, m, label="J"):
     """The bra ``<j m|_label`` (see :class:`Bra`).
 
+    Examples
+    ========
+
     >>> bra(1, 1)
     <1, 1|_J
     """
@@ -342,6 +442,9 @@ def bra(j, m, label="J"):
 
 def product_ket(*kets):
     """The product of kets over distinct labels (see :class:`ProductKet`).
+
+    Examples
+    ========
 
     >>> product_ket(ket(1, 0, "L"), ket("1/2", "1/2", "S")).labels
     ('L', 'S')
@@ -437,6 +540,32 @@ def _basis_overlap(b, k):
                  for lab in sorted(fb)])
 
 
+# other state families (Fock kets) register here on import: (ket classes, bra classes, apply, inner)
+_FAMILIES = []
+
+
+def register_state_family(kets, bras, apply_fn, inner_fn):
+    """Let a state family outside this package (Fock kets) be reached by :func:`apply` and friends.
+
+    ``kets``/``bras`` are tuples of classes; ``apply_fn(op, state)`` and
+    ``inner_fn(bra, ket)`` do the work.  Registering twice is a no-op.
+
+    >>> from amalgebra.states.kets import register_state_family
+    >>> register_state_family((), (), None, None)
+    """
+    entry = (tuple(kets), tuple(bras), apply_fn, inner_fn)
+    if entry not in _FAMILIES and entry[0]:
+        _FAMILIES.append(entry)
+
+
+def _family_of(state, which):
+    """The registered family whose kets (``which=0``) or bras (1) appear in ``state``, or None."""
+    for family in _FAMILIES:
+        if state.has(*family[which]):
+            return family
+    return None
+
+
 def inner(bra_state, ket_state):
     r"""The inner product :math:`\langle\phi|\psi\rangle` of a bra combination and a ket combination.
 
@@ -465,6 +594,9 @@ def inner(bra_state, ket_state):
 
     norm
     """
+    family = _family_of(ket_state, 0) if _FAMILIES and hasattr(ket_state, "has") else None
+    if family is not None:
+        return family[3](bra_state if _family_of(bra_state, 1) else adjoint(bra_state), ket_state)
     if not _is_bra_like(bra_state):
         bra_state = adjoint(bra_state)
     bras = components(bra_state, _BRAS, "bra")
@@ -502,6 +634,9 @@ def _is_bra_like(state):
 def norm(state):
     """The norm ``sqrt(<psi|psi>)`` of a ket combination.
 
+    Examples
+    ========
+
     >>> from sympy import sqrt
     >>> norm(ket(1, 0) - ket(1, 1)) == sqrt(2)
     True
@@ -512,6 +647,9 @@ def norm(state):
 
 def normalize(state):
     """The state divided by its norm; refuses the zero state.
+
+    Examples
+    ========
 
     >>> normalize(ket(0, 0) + ket(1, 0))
     sqrt(2)*|0, 0>_J/2 + sqrt(2)*|1, 0>_J/2

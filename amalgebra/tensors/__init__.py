@@ -16,7 +16,7 @@ mixedform        normal form of polynomials in angular-momentum AND tensor/vecto
                  (registered with amalgebra.algebra.canonical / commutator on import)
 
 The Wigner-Eckart engine itself (ReducedMatrixElement, wigner_eckart, conventions) is
-:mod:`amalgebra.reduced`.
+:mod:`amalgebra.tensors.wigner_eckart`.
 
 >>> from amalgebra.tensors import SphericalTensor, decompose
 >>> SphericalTensor("T", 1, "J")[0]

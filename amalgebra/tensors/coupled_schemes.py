@@ -8,7 +8,7 @@ Operators acting on part 1 or part 2 of a coupled pair, tensor products
 :math:`T^k(1)\cdot U^k(2)`, between :math:`|(j_1' j_2') J' M'\rangle` and
 :math:`|(j_1 j_2) J M\rangle` (coupling order 1 then 2, Condon-Shortley
 Clebsch-Gordan coefficients).  Edmonds (1957) normalisation of the reduced
-elements (see :mod:`amalgebra.reduced`):
+elements (see :mod:`amalgebra.tensors.wigner_eckart`):
 
 * tensor product (Edmonds eq. 7.1.5)
 
@@ -52,7 +52,7 @@ The equation numbers are quoted from memory; every formula is checked in
 the definitions (Clebsch-Gordan coupling of uncoupled matrices), and the
 module's output is what those tests pin.  With ``convention="cg"`` inputs
 and output are in the Clebsch-Gordan-form normalisation; they are converted
-through :func:`amalgebra.reduced.convert_reduced`.
+through :func:`amalgebra.tensors.wigner_eckart.convert_reduced`.
 
 Projection theorem (vector operators, Edmonds eq. 5.4.3 style):
 :math:`\langle j m'|V_q|j m\rangle = \langle j m'|J_q|j m\rangle \langle \mathbf{J}\cdot\mathbf{V}\rangle_j/(j(j+1))`.
@@ -79,14 +79,15 @@ References
 .. [1] A. R. Edmonds, *Angular Momentum in Quantum Mechanics*, Princeton (1957), section 7.1.
 """
 
-from sympy import Add, S, sqrt
+from sympy import Add, Rational, S, sqrt
 
 from .._validation import as_expression
 from ..coupling import ninej, sixj
 from ..errors import QuantumNumberError
 from ..qnumbers import quantum_number, triangle
-from ..reduced import (ReducedMatrixElement, check_convention, convert_reduced,
+from .wigner_eckart import (ReducedMatrixElement, check_convention, convert_reduced,
                        wigner_eckart_factor)
+from .tree_elements import part_one_factor, part_two_factor, product_factor
 
 __all__ = [
     "reduced_part1",
@@ -135,7 +136,7 @@ def reduced_part1(j1p, j2p, Jp, j1, j2, J, k, reduced=None, *, name="T", convent
     r"""Reduced element of :math:`T^k(1)` between :math:`|(j_1' j_2') J'\rangle` and :math:`|(j_1 j_2)J\rangle`.
 
     ``reduced`` is :math:`\langle j_1'\|T^k\|j_1\rangle` (default: a
-    :class:`~amalgebra.reduced.ReducedMatrixElement` named ``name``).  Zero
+    :class:`~amalgebra.tensors.wigner_eckart.ReducedMatrixElement` named ``name``).  Zero
     unless ``j2p == j2``.  Edmonds eq. 7.1.7 (see the module docstring).
 
     Examples
@@ -153,8 +154,7 @@ def reduced_part1(j1p, j2p, Jp, j1, j2, J, k, reduced=None, *, name="T", convent
     red = _default(reduced, name, k, j1p, j1, convention)
     if j2p != j2:
         return S.Zero
-    coefficient = (_sign(j1p + j2 + J + k) * sqrt((2 * J + 1) * (2 * Jp + 1))
-                   * sixj(j1p, Jp, j2, J, j1, k))
+    coefficient = part_one_factor(j1p, j2, Jp, j1, J, k)
     return _from_edmonds(coefficient * _to_edmonds(red, j1p, j1, convention), Jp, convention)
 
 
@@ -179,8 +179,7 @@ def reduced_part2(j1p, j2p, Jp, j1, j2, J, k, reduced=None, *, name="U", convent
     red = _default(reduced, name, k, j2p, j2, convention)
     if j1p != j1:
         return S.Zero
-    coefficient = (_sign(j1 + j2 + Jp + k) * sqrt((2 * J + 1) * (2 * Jp + 1))
-                   * sixj(j2p, Jp, j1, J, j2, k))
+    coefficient = part_two_factor(j1, j2p, Jp, j2, J, k)
     return _from_edmonds(coefficient * _to_edmonds(red, j2p, j2, convention), Jp, convention)
 
 
@@ -209,8 +208,7 @@ def reduced_tensor_product(j1p, j2p, Jp, j1, j2, J, k1, k2, k, reduced1=None, re
     _check_couplings(j1, j2, J, "(j1, j2, J)")
     red1 = _to_edmonds(_default(reduced1, names[0], k1, j1p, j1, convention), j1p, j1, convention)
     red2 = _to_edmonds(_default(reduced2, names[1], k2, j2p, j2, convention), j2p, j2, convention)
-    coefficient = (sqrt((2 * J + 1) * (2 * Jp + 1) * (2 * k + 1))
-                   * ninej(j1p, j1, k1, j2p, j2, k2, Jp, J, k))
+    coefficient = product_factor(j1p, j1, k1, j2p, j2, k2, Jp, J, k)
     return _from_edmonds(coefficient * red1 * red2, Jp, convention)
 
 
@@ -243,26 +241,72 @@ def tensor_product_table(js1, js2, k1, k2, ranks, *, symbolic=False, names=("T",
     >>> all(value == reduced_tensor_product(*key[:6], 1, 1, key[6]) for key, value in table.items())
     True
     """
+    from sympy import Mul
+    from sympy.core.add import _args_sortkey
+
+    from ..coupling.coefficients import _to_sympy
+    from ..coupling.kernels import multiply_sqrt, ninej_kernel
+
     hs1 = sorted({quantum_number(j, "js1", nonnegative=True) for j in js1})
     hs2 = sorted({quantum_number(j, "js2", nonnegative=True) for j in js2})
     k1, k2 = _js((k1, k2), ("k1", "k2"))
     ranks = sorted({quantum_number(k, "ranks", nonnegative=True) for k in ranks})
-    pairs1 = [(a, b) for a in hs1 for b in hs1 if triangle(a, k1, b)]
-    pairs2 = [(a, b) for a in hs2 for b in hs2 if triangle(a, k2, b)]
+    # doubled ints from here on: the kernel's triples are turned into SymPy numbers once per entry
+    t1s, t2s = [int(2 * j) for j in hs1], [int(2 * j) for j in hs2]
+    tk1, tk2 = int(2 * k1), int(2 * k2)
+    tks = [int(2 * k) for k in ranks]
+    half = {t: Rational(t, 2) for t in range(0, 2 * max(t1s + t2s + tks + [tk1, tk2]) + 2)}
+
+    def tri(a, b, c):
+        return not (a + b + c) & 1 and abs(a - b) <= c <= a + b
+
+    pairs1 = [(a, b) for a in t1s for b in t1s if tri(a, tk1, b)]
+    pairs2 = [(a, b) for a in t2s for b in t2s if tri(a, tk2, b)]
     table = {}
-    for j1p, j1 in pairs1:
-        for j2p, j2 in pairs2:
-            product = (ReducedMatrixElement(names[0], k1, j1p, j1)
-                       * ReducedMatrixElement(names[1], k2, j2p, j2)) if symbolic else S.One
-            for J in _coupled_range(j1, j2):
-                for Jp in _coupled_range(j1p, j2p):
-                    for k in ranks:
-                        if not triangle(Jp, k, J):
+    for t1p, t1 in pairs1:
+        for t2p, t2 in pairs2:
+            factors = None
+            if symbolic:
+                product = (ReducedMatrixElement(names[0], k1, half[t1p], half[t1])
+                           * ReducedMatrixElement(names[1], k2, half[t2p], half[t2]))
+                factors = product.args if isinstance(product, Mul) else (product,)
+            for tJ in range(abs(t1 - t2), t1 + t2 + 1, 2):
+                for tJp in range(abs(t1p - t2p), t1p + t2p + 1, 2):
+                    for tk in tks:
+                        if not tri(tJp, tk, tJ):
                             continue
-                        value = (sqrt((2 * J + 1) * (2 * Jp + 1) * (2 * k + 1))
-                                 * ninej(j1p, j1, k1, j2p, j2, k2, Jp, J, k))
-                        table[(j1p, j2p, Jp, j1, j2, J, k)] = value * product
+                        if tri(tk1, tk2, tk):
+                            # every row and column is a triad here, so the raw kernel applies; it is
+                            # cheaper than the symmetry reduction that would let a cache hit
+                            triple = multiply_sqrt(ninej_kernel(t1p, t1, tk1, t2p, t2, tk2, tJp, tJ, tk),
+                                                   (tJ + 1) * (tJp + 1) * (tk + 1))
+                        else:
+                            triple = (0, 1, 1)
+                        value = _to_sympy(triple)
+                        if factors is not None:
+                            value = _times_symbols(value, factors, Mul, _args_sortkey)
+                        table[(half[t1p], half[t2p], half[tJp], half[t1], half[t2], half[tJ], half[tk])] = value
     return table
+
+
+def _times_symbols(value, factors, Mul, sortkey):
+    """``value * Mul(*factors)`` for a number ``value`` and commutative non-number factors, built once.
+
+    The same expression as generic ``*``: the Rational part first, the other factors sorted as
+    ``Mul`` sorts them (nothing to collect: the factors are distinct symbols and one square root).
+    """
+    if value == 0:
+        return S.Zero
+    if value.is_Rational:
+        rest = ()
+        coeff = value
+    elif isinstance(value, Mul):
+        coeff, rest = value.args[0], value.args[1:]
+    else:
+        coeff, rest = S.One, (value,)
+    others = sorted((*rest, *factors), key=sortkey)
+    args = tuple(others) if coeff == 1 else (coeff, *others)
+    return args[0] if len(args) == 1 else Mul._from_args(args)
 
 
 def reduced_product_same_space(jp, j, k1, k2, k, intermediate, *, convention="edmonds"):

@@ -100,10 +100,12 @@ from sympy.printing.pretty.stringpict import prettyForm
 
 from .._validation import as_expression
 from ..algebra import canonical
+from ..algebra.coefficients import normal_or_expanded
 from ..algebra.operators import AngularMomentum, AngularMomentumComponent
 from ..coupling import cg
 from ..errors import OperatorError, TensorOperatorError
 from ..notation import text_latex
+from ..results import Decomposition
 from .products import TensorComponents, cartesian_to_spherical, tensor_product
 from .spherical import TensorComponent
 from .vectors import VectorComponent, VectorOperator
@@ -246,7 +248,8 @@ def _order(word, atoms):
 def _collect(terms_by_word):
     out = {}
     for word, terms in terms_by_word.items():
-        value = expand(Add(*terms))
+        # zero is decided in the coefficient normal form (sin^2 + cos^2 - 1 is 0)
+        value = normal_or_expanded(Add(*terms))[0]
         if value != 0:
             out[word] = value
     return out
@@ -347,9 +350,9 @@ def decompose(expr, labels=None, vectors=(), *, canonicalize=True):
     >>> Dx, Dy, Dz = symbols("Dx Dy Dz")
     >>> parts = decompose(Dx*S.x**2 + Dy*S.y**2 + Dz*S.z**2)
     >>> parts[0][0]
-    Dx*S.squared/3 + Dy*S.squared/3 + Dz*S.squared/3
+    (Dx + Dy + Dz)*S.squared/3
     >>> sorted(parts), parts[2][2]
-    ([0, 2], Dx*S.plus**2/4 - Dy*S.plus**2/4)
+    ([0, 2], (Dx - Dy)*S.plus**2/4)
 
     See Also
     ========
@@ -366,7 +369,7 @@ def decompose(expr, labels=None, vectors=(), *, canonicalize=True):
     atoms = _Atoms(labels, list(vectors))
     words = _collect(_words(expr, atoms))
     if not words:
-        return {}
+        return Decomposition()
     top = max(_max_rank(w, atoms) for w in words)
     offset = top - int(top)
     ranks = [offset + n for n in range(int(top - offset) + 1)]
@@ -403,11 +406,14 @@ def decompose(expr, labels=None, vectors=(), *, canonicalize=True):
             nonzero = nonzero or value != 0
         if nonzero:
             result[k] = comps
-    return result
+    return Decomposition(result)  # a dict that displays as LaTeX in notebooks
 
 
 def recombine(parts):
     """The sum of all parts returned by :func:`decompose`.
+
+    Examples
+    ========
 
     >>> from amalgebra.algebra import AngularMomentum, canonical
     >>> from amalgebra.tensors.irreducible import decompose, recombine
@@ -513,7 +519,7 @@ def _coefficient_tensors(M):
         for q in range(int(k), -int(k) - 1, -1):
             terms = [cg(1, mu, 1, q - mu, k, q) * spherical[mu, q - mu]
                      for mu in (1, 0, -1) if abs(q - mu) <= 1]
-            comps.append(expand(S.NegativeOne ** k * Add(*terms)))
+            comps.append(normal_or_expanded(S.NegativeOne ** k * Add(*terms))[0])
         out[k] = TensorComponents(k, comps)
     return out
 
@@ -685,7 +691,8 @@ def bilinear_tensor_form(U, M, V):
 
     The rank-``k`` recombination equals the rank-``k`` part of
     :func:`decompose` (with classical vectors passed as ``vectors=``).  Ranks
-    whose coefficient tensor vanishes (every component expands to 0)
+    whose coefficient tensor vanishes (every component is 0 in the coefficient normal form of
+    :mod:`amalgebra.algebra.coefficients`, so ``sin(t)**2 + cos(t)**2`` counts as 1)
     are left out: a symmetric ``M`` has no rank 1, a scalar ``M`` only rank 0.
 
     Examples

@@ -87,9 +87,10 @@ References
 
 from math import comb, gcd
 
-from sympy import Add, I, Integer, Mul, Rational, S, cancel, default_sort_key, expand, sqrt
+from sympy import Add, I, Integer, Mul, Rational, S, default_sort_key, sqrt
 from sympy.ntheory import factorint
 
+from ..algebra.coefficients import scalar_terms
 from ..algebra.convert import _check_expr, _scalar, choose_domain, operator_power_base, to_kernel
 from ..algebra.extensions import register_extension
 from ..algebra.modes import ANGULAR_MOMENTUM, mode_of
@@ -556,20 +557,11 @@ class MixedAlgebra:
                     groups.setdefault((shift, mon, atoms), []).append(value * factor)
         terms = []
         for (shift, mon, atoms), values in groups.items():
-            coeff = expand(Add(*values))
-            if coeff == 0:
-                continue
+            # one term per operator monomial, coefficient in the one normal form of
+            # amalgebra.algebra.coefficients (the same rule as the m-shift kernel's output)
             factors = kernel.term_factors(shift, mon) + atoms
-            terms.extend(Mul(part, *factors) for part in _coefficient_parts(coeff))
+            terms.extend(scalar_terms(Add(*values), factors))
         return Add(*terms)
-
-
-def _coefficient_parts(coeff):
-    """Split an expanded coefficient as the m-shift kernel does: a polynomial in user symbols
-    into its monomials, a rational function with a symbolic denominator kept whole."""
-    if coeff.is_Add and any(part.as_numer_denom()[1].free_symbols for part in coeff.args):
-        return (cancel(coeff),)
-    return Add.make_args(coeff)
 
 
 class _TensorExtension:

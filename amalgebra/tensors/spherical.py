@@ -14,11 +14,11 @@ momentum with a given *label* (``"J"``, ``"L"``, ...):
 
 (Racah's definition; design.md).  Its matrix elements follow from one reduced
 matrix element per pair :math:`(j', j)` by the Wigner-Eckart theorem
-(:mod:`amalgebra.reduced`, Edmonds normalisation by default).  The *kind*
+(:mod:`amalgebra.tensors.wigner_eckart`, Edmonds normalisation by default).  The *kind*
 says where the reduced element comes from:
 
 ``"abstract"``
-    a symbol, :class:`~amalgebra.reduced.ReducedMatrixElement`;
+    a symbol, :class:`~amalgebra.tensors.wigner_eckart.ReducedMatrixElement`;
 ``"unit"``
     Racah's unit tensor, :math:`\langle j'\|u^k\|j\rangle = \delta_{j'j}`
     (when the triangle rule allows it);
@@ -72,16 +72,16 @@ References
 .. [2] A. R. Edmonds, *Angular Momentum in Quantum Mechanics*, Princeton (1957), ch. 5.
 """
 
-from sympy import Basic, Expr, I, Integer, Matrix, S, sqrt
+from sympy import Basic, Expr, I, S, sqrt
 from sympy.core.symbol import Str
 
-from .._validation import as_expression
+from .._validation import check_label
 from ..algebra.operators import AngularMomentumComponent
 from ..notation import NotationHooks
 from ..coupling import threej
 from ..errors import OperatorError, QuantumNumberError, TensorOperatorError
 from ..qnumbers import doubled, doubled_projection, half_integer, quantum_number, triangle
-from ..reduced import ReducedMatrixElement, check_convention, convert_reduced, wigner_eckart_factor
+from .wigner_eckart import ReducedMatrixElement, check_convention, convert_reduced, wigner_eckart_factor
 
 __all__ = [
     "KINDS",
@@ -97,11 +97,7 @@ KINDS = ("abstract", "unit", "racah")
 
 
 def _label(label, name="label"):
-    if isinstance(label, Str):
-        label = label.name
-    if not isinstance(label, str) or not label.isidentifier() or not label.isascii():
-        raise OperatorError(f"{name}={label!r} must be an identifier-like str such as 'J' or 'L'")
-    return label
+    return check_label(label, name, OperatorError)
 
 
 def _hermitian_flag(hermitian):
@@ -144,7 +140,7 @@ class SphericalTensor(NotationHooks, Basic):
     See Also
     ========
 
-    racah_tensor, unit_tensor, tensor_matrix, amalgebra.reduced.wigner_eckart
+    racah_tensor, unit_tensor, tensor_matrix, amalgebra.tensors.wigner_eckart.wigner_eckart
     """
 
     __slots__ = ()
@@ -168,7 +164,7 @@ class SphericalTensor(NotationHooks, Basic):
     label = property(lambda self: self.args[2].name, doc="The angular momentum it is a tensor under.")
     kind = property(lambda self: self.args[3].name, doc="abstract, unit or racah.")
     hermitian = property(lambda self: self.args[4].name == "hermitian",
-                         doc="True when (T_q)^dagger = (-1)^q T_-q.")
+                         doc="True when ``(T_q)^dagger = (-1)^q T_-q``.")
 
     def check_q(self, q, name="q"):
         """Validate a component index: ``k - q`` an integer and ``|q| <= k``; return it exactly."""
@@ -332,14 +328,6 @@ def unit_tensor(k, label="J", name="u"):
     return SphericalTensor(name, k, label, "unit")
 
 
-def _space(js):
-    out = []
-    for value in js:
-        j = half_integer(value, "j", nonnegative=True)
-        out.extend((j, j - i) for i in range(int(2 * j) + 1))
-    return out
-
-
 def tensor_matrix(tensor, q, js, *, reduced=None, convention="edmonds"):
     r"""The matrix of :math:`T^k_q` on the direct sum of :math:`|j m\rangle` spaces for ``js``.
 
@@ -347,7 +335,8 @@ def tensor_matrix(tensor, q, js, *, reduced=None, convention="edmonds"):
     ===========
 
     Basis: for each ``j`` in ``js`` (in the order given) the states
-    ``m = j, j-1, ..., -j``.  Entries by the Wigner-Eckart theorem with
+    ``m = j, j-1, ..., -j`` (the order of :func:`amalgebra.matrices.explicit.to_matrix`,
+    which computes it).  Entries by the Wigner-Eckart theorem with
     ``tensor.reduced(j', j)``, or with ``reduced[(j', j)]`` when a dict
     ``reduced`` is given (missing pairs are zero).  ``js`` may also be a dict
     ``{label: [j values]}``: its key must be the tensor's label, else
@@ -370,19 +359,8 @@ def tensor_matrix(tensor, q, js, *, reduced=None, convention="edmonds"):
                                       f"{tensor.name} is a tensor under {tensor.label!r}")
         js = js[tensor.label]
     q = tensor.check_q(q)
-    basis = _space(js)
-    table = None
-    if reduced is not None:
-        table = {(half_integer(a, "jp"), half_integer(b, "j")): as_expression(v) for (a, b), v in reduced.items()}
-    n = len(basis)
-    entries = {}
-    for r, (jp, mp) in enumerate(basis):
-        for c, (j, m) in enumerate(basis):
-            if mp - m != q:
-                continue
-            factor = wigner_eckart_factor(jp, mp, tensor.rank, q, j, m, convention)
-            if factor == 0:
-                continue
-            red = table.get((jp, j), S.Zero) if table is not None else tensor.reduced(jp, j, convention)
-            entries[(r, c)] = factor * red
-    return Matrix(n, n, lambda r, c: entries.get((r, c), Integer(0)))
+    from ..matrices.explicit import to_matrix   # the one matrix route (late: numeric sits above tensors)
+
+    js = list(js) if isinstance(js, (list, tuple)) else [js]
+    return to_matrix(tensor[q], {tensor.label: js}, reduced=None if reduced is None else {tensor: dict(reduced)},
+                     convention=convention)

@@ -10,7 +10,7 @@ Quantum Mechanics*, eq. (3.5.41) from memory) and evaluates a SymPy operator
 expression by walking it and multiplying matrices.  Several labels form a
 Kronecker product in sorted label order (first label outermost).  Nothing
 here calls :func:`amalgebra.algebra.canonical` or
-:func:`amalgebra.numeric.to_matrix`, so tests can compare against it.
+:func:`amalgebra.matrices.explicit.to_matrix`, so tests can compare against it.
 
 Examples
 ========
@@ -22,11 +22,14 @@ Examples
 True
 """
 
+from math import factorial, sqrt
+
 import numpy as np
 
 from ..algebra.operators import AngularMomentumComponent
 
-__all__ = ["component_matrices", "evaluate"]
+__all__ = ["component_matrices", "evaluate", "threej_float", "direct_sum_states", "space_states",
+           "evaluate_on_space"]
 
 
 def component_matrices(j):
@@ -74,5 +77,150 @@ def evaluate(expr, js):
         if node.is_Pow and not node.is_commutative:
             return np.linalg.matrix_power(walk(node.base), int(node.exp))
         return complex(node) * np.eye(total, dtype=complex)
+
+    return walk(expr)
+
+
+def threej_float(j1, j2, j3, m1, m2, m3):
+    """The 3j symbol by Racah's single-sum formula in floats (Edmonds 1957, eq. 3.7.3, from memory).
+
+    Independent of :mod:`amalgebra.coupling` (plain ``math.factorial``), for the oracle only.
+
+    >>> round(threej_float(1, 1, 0, 0, 0, 0) ** 2, 12)     # 1/3
+    0.333333333333
+    """
+    vals = [float(v) for v in (j1, j2, j3, m1, m2, m3)]
+    j1, j2, j3, m1, m2, m3 = vals
+    if abs(m1 + m2 + m3) > 1e-9 or any(abs(m) > j + 1e-9 for m, j in ((m1, j1), (m2, j2), (m3, j3))):
+        return 0.0
+    if j3 > j1 + j2 + 1e-9 or j3 < abs(j1 - j2) - 1e-9:
+        return 0.0
+
+    def f(x):
+        n = int(round(x))
+        return factorial(n)
+
+    delta = f(j1 + j2 - j3) * f(j1 - j2 + j3) * f(-j1 + j2 + j3) / f(j1 + j2 + j3 + 1)
+    pre = sqrt(delta * f(j1 + m1) * f(j1 - m1) * f(j2 + m2) * f(j2 - m2) * f(j3 + m3) * f(j3 - m3))
+    total = 0.0
+    kmin = int(round(max(0, j2 - j3 - m1, j1 - j3 + m2)))
+    kmax = int(round(min(j1 + j2 - j3, j1 - m1, j2 + m2)))
+    for k in range(kmin, kmax + 1):
+        total += (-1) ** k / (f(k) * f(j1 + j2 - j3 - k) * f(j1 - m1 - k) * f(j2 + m2 - k)
+                              * f(j3 - j2 + m1 + k) * f(j3 - j1 - m2 + k))
+    phase = (-1) ** int(round(j1 - j2 - m3))
+    return phase * pre * total
+
+
+def direct_sum_states(js):
+    """``[(j, m)]`` of the direct sum of multiplets ``js`` (given order, m descending)."""
+    out = []
+    for j in js:
+        j = float(j)
+        out.extend((j, j - k) for k in range(int(round(2 * j)) + 1))
+    return out
+
+
+def space_states(space):
+    """``(labels, [tuple of (j, m) per label])`` of ``{label: [j values]}``: Kronecker order, labels sorted
+    (natural order: 'S2' before 'S10'), the first outermost."""
+    import re
+
+    def key(label):
+        stem, digits = re.match(r"^(.*?)(\d*)$", label).groups()
+        return (stem, int(digits) if digits else -1, label)
+
+    labels = sorted(space, key=key)
+    states = [()]
+    for label in labels:
+        js = space[label] if isinstance(space[label], (list, tuple)) else [space[label]]
+        states = [s + (pair,) for s in states for pair in direct_sum_states(js)]
+    return labels, states
+
+
+def evaluate_on_space(expr, space, reduced=None, convention="edmonds"):
+    """Matrix of ``expr`` on ``space`` = {label: [j values]} by products of textbook atom matrices.
+
+    Angular-momentum atoms from the ladder formula above; a tensor component
+    ``T^k_q`` (duck-typed: ``.tensor.rank``, ``.tensor.label``, ``.q``) and a
+    vector component (``.vector``, ``.axis``; ``V_{+-1} = -+(Vx +- i Vy)/sqrt2``)
+    by the Wigner-Eckart theorem with :func:`threej_float`:
+    ``<j'm'|T_q|jm> = (-1)^(j'-m') (j' k j; -m' q m) R(j', j)`` (Edmonds 1957, eq. 5.4.1) or
+    ``<j m k q|j' m'> R(j', j)`` for ``convention="cg"``.  ``reduced`` maps a family to a
+    callable ``R(j', j)`` of floats (default 1 for every pair).  Products are products of
+    matrices on the space (the truncation ``P T P``).
+    """
+    labels, states = space_states(space)
+    n = len(states)
+    index = {s: i for i, s in enumerate(states)}
+    reduced = reduced or {}
+
+    def am(label, comp):
+        i = labels.index(label)
+        out = np.zeros((n, n), dtype=complex)
+        for c, s in enumerate(states):
+            j, m = s[i]
+            if comp == "z":
+                out[c, c] = m
+                continue
+            if comp == "squared":
+                out[c, c] = j * (j + 1)
+                continue
+            up = s[:i] + ((j, m + 1),) + s[i + 1:]
+            dn = s[:i] + ((j, m - 1),) + s[i + 1:]
+            a_up = sqrt(max((j - m) * (j + m + 1), 0.0))
+            a_dn = sqrt(max((j + m) * (j - m + 1), 0.0))
+            w_up, w_dn = {"plus": (1, 0), "minus": (0, 1), "x": (0.5, 0.5), "y": (-0.5j, 0.5j)}[comp]
+            if up in index and w_up:
+                out[index[up], c] += w_up * a_up
+            if dn in index and w_dn:
+                out[index[dn], c] += w_dn * a_dn
+        return out
+
+    def tensor(label, k, q, red):
+        i = labels.index(label)
+        out = np.zeros((n, n), dtype=complex)
+        for c, s in enumerate(states):
+            j, m = s[i]
+            for r, t in enumerate(states):
+                if t[:i] + t[i + 1:] != s[:i] + s[i + 1:]:
+                    continue
+                jp, mp = t[i]
+                if abs(mp - m - q) > 1e-9:
+                    continue
+                if convention == "cg":
+                    geo = (-1) ** int(round(j - k + mp)) * sqrt(2 * jp + 1) * threej_float(j, k, jp, m, q, -mp)
+                else:
+                    geo = (-1) ** int(round(jp - mp)) * threej_float(jp, k, j, -mp, q, m)
+                out[r, c] = geo * red(jp, j)
+        return out
+
+    def walk(node):
+        if isinstance(node, AngularMomentumComponent):
+            return am(node.label, node.component)
+        if hasattr(node, "tensor") and hasattr(node, "q"):
+            fam = node.tensor
+            red = reduced.get(fam, lambda jp, j: 1.0)
+            return tensor(fam.label, float(fam.rank), float(node.q), red)
+        if hasattr(node, "vector") and hasattr(node, "axis"):
+            fam = node.vector
+            red = reduced.get(fam, lambda jp, j: 1.0)
+            sph = {q: tensor(fam.label, 1.0, float(q), red) for q in (1, 0, -1)}
+            if node.axis == "z":
+                return sph[0]
+            if node.axis == "x":
+                return (sph[-1] - sph[1]) / sqrt(2)
+            return 1j * (sph[1] + sph[-1]) / sqrt(2)
+        if node.is_Add:
+            return sum(walk(arg) for arg in node.args)
+        if node.is_Mul:
+            out = np.eye(n, dtype=complex)
+            for arg in node.args:
+                value = walk(arg)
+                out = out @ value if np.ndim(value) == 2 else out * value
+            return out
+        if node.is_Pow and not node.is_commutative:
+            return np.linalg.matrix_power(walk(node.base), int(node.exp))
+        return complex(node) * np.eye(n, dtype=complex)
 
     return walk(expr)

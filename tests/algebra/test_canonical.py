@@ -128,7 +128,7 @@ def test_symbolic_coefficients_cancel_exactly():
 
 
 # ------------------------------------------------------------------ hypothesis properties
-@settings(max_examples=40, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(labels=("J", "S"), max_terms=3, max_weight=4))
 @example(J.plus * J.minus * J.plus)
 def test_idempotent(p):
@@ -136,7 +136,7 @@ def test_idempotent(p):
     assert canonical(c) == c
 
 
-@settings(max_examples=30, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(labels=("J", "L"), max_terms=2, max_weight=3),
        operator_polynomials(labels=("J", "L"), max_terms=2, max_weight=3),
        operator_polynomials(labels=("J", "L"), max_terms=2, max_weight=3))
@@ -146,7 +146,7 @@ def test_associative_and_distributive(p, q, r):
     assert canonical(p * (q + r)) == canonical(canonical(p * q) + canonical(p * r))
 
 
-@settings(max_examples=30, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(labels=("J", "S"), max_terms=3, max_weight=4),
        st.sampled_from(HALF_INTEGERS), st.sampled_from(HALF_INTEGERS))
 @example(J.x * J.y * S.plus * J.minus, 1.5, 0.5)
@@ -180,7 +180,7 @@ def _vanishes(expr, labels, max_weight):
     return True
 
 
-@settings(max_examples=15, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(labels=("J",), max_terms=3, max_weight=3, gaussian=False),
        operator_polynomials(labels=("J",), max_terms=3, max_weight=3, gaussian=False))
 @example(J.x * J.y, J.y * J.x + I * J.z)
@@ -284,7 +284,7 @@ def test_unsupported_objects_raise_operator_error(bad):
 
 # --------------------------------------------------------------------------- slow checks
 @pytest.mark.slow
-@settings(max_examples=300, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(labels=("I", "J", "S"), max_terms=4, max_weight=5),
        st.sampled_from(HALF_INTEGERS), st.sampled_from([0.5, 1]), st.sampled_from([0.5, 1.5]))
 def test_three_labels_matrices_fuzz(p, jj, js, ji):
@@ -304,7 +304,7 @@ def test_high_powers_against_numpy(n):
         assert np.allclose(evaluate(c, {"J": j}), ref, rtol=1e-9, atol=1e-10 * abs(ref).max())
 
 
-@settings(max_examples=25, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(labels=("J", "S"), max_terms=2, max_weight=3),
        operator_polynomials(labels=("J", "S"), max_terms=2, max_weight=3),
        st.sampled_from([a, f(t), sqrt(2), a * sqrt(3) + I, 1 / (a + 2), a * b - I * f(t)]))
@@ -320,7 +320,7 @@ def test_symbolic_domains_match_numpy(p, q, coeff):
     assert np.allclose(got, ref)
 
 
-@settings(max_examples=30, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(labels=("J", "S"), max_terms=3, max_weight=3),
        st.sampled_from([Integer(1), a, -I * sqrt(2) / 2, a * sqrt(3) + I, 1 / (a + 2), f(t) - 3 * I]))
 def test_fast_construction_equals_sympy_construction(p, coeff):

@@ -30,7 +30,7 @@ def test_commutator_table(x, y, expected):
     assert commutator(x, y) == canonical(expected)
 
 
-@settings(max_examples=25, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(("J", "S"), 2, 3), operator_polynomials(("J", "S"), 2, 3),
        operator_polynomials(("J", "S"), 2, 3))
 def test_jacobi_and_antisymmetry(x, y, z):
@@ -41,7 +41,7 @@ def test_jacobi_and_antisymmetry(x, y, z):
     assert canonical(total) == 0
 
 
-@settings(max_examples=15, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(("J",), 2, 3), operator_polynomials(("J",), 2, 3))
 def test_commutator_matches_numpy(x, y):
     # independent numpy matrices, j = 3/2

@@ -169,7 +169,7 @@ from hypothesis import given, settings  # noqa: E402
 from amalgebra.testing.strategies import operator_polynomials  # noqa: E402
 
 
-@settings(max_examples=25, deadline=None)
+@settings(deadline=None)
 @given(operator_polynomials(("J", "S"), 3, 4))
 def test_adjoint_involution_and_matrices(p):
     import numpy as np

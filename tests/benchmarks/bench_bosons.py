@@ -23,7 +23,7 @@ from amalgebra.algebra import AngularMomentum, canonical
 from amalgebra.algebra.shiftform import clear_caches as clear_kernel_caches
 from amalgebra.bosons import (apply_bosons, boson_modes, clear_schwinger_caches, fock_ket, from_bosons,
                               schwinger_small_d_matrix, to_bosons)
-from amalgebra.rotations import clear_rotation_caches, small_d_matrix
+from amalgebra.rotations.wigner import clear_rotation_caches, small_d_matrix
 
 BASELINE = "/work/shared/bench/bench_normal_order.py"
 
@@ -105,7 +105,7 @@ def main():
         assert back == canonical(e)
         print(f"  k={k}  to_bosons {ms(t1)}  from_bosons {ms(t2)}  boson terms={len(Add.make_args(image))}")
 
-    print("5) full d^j(beta) matrix: boson picture vs Wigner formula (amalgebra.rotations)")
+    print("5) full d^j(beta) matrix: boson picture vs Wigner formula (amalgebra.rotations.wigner)")
     beta = Symbol("beta")
     for j in (1, 2, 3, 5):
         tb, _, mb = cold(lambda: schwinger_small_d_matrix(j, beta), args.repeat)

@@ -33,6 +33,7 @@ from amalgebra.states.hamiltonian import hamiltonian_matrix
 from amalgebra.states.kets import bra, ket
 from amalgebra.states.actionform import clear_caches as clear_shift
 from amalgebra.states.actionform import action_form
+from amalgebra.states.engine import clear_caches as clear_engine
 
 BASELINE = "/work/shared/bench/matrix_elements_numeric.py"
 
@@ -40,6 +41,7 @@ BASELINE = "/work/shared/bench/matrix_elements_numeric.py"
 def cold():
     clear_cache()
     clear_shift()
+    clear_engine()
     clear_coupled()
 
 
@@ -93,10 +95,13 @@ def main(argv=None):
     prep, prep_min = timings(lambda: action_form(op, ("J",)), args.repeat)
     print(f"prepare closed form of (Jx^2-Jy^2+JzJx)^4: median {prep * 1e3:.1f} ms, min {prep_min * 1e3:.1f} ms "
           f"(target < 50 ms)")
-    action_form(op, ("J",), method="ladder")
-    prep_ladder, prep_ladder_min = timings(lambda: action_form(op, ("J",), method="ladder"), args.repeat)
-    print(f"  same through amalgebra.algebra.ladder_terms (method='ladder'): median {prep_ladder * 1e3:.1f} ms, "
-          f"min {prep_ladder_min * 1e3:.1f} ms")
+    from amalgebra.testing.action_oracle import walk_action
+    jsym, msym = symbols("j m")
+    walk_action(op, ("J",), (jsym,), (msym,))
+    prep_oracle, prep_oracle_min = timings(lambda: walk_action(op, ("J",), (jsym,), (msym,)), args.repeat)
+    print(f"  the former second engine (word-by-word walk, now amalgebra.testing.action_oracle, including the "
+          f"conversion of its result to SymPy expressions): median {prep_oracle * 1e3:.1f} ms, "
+          f"min {prep_oracle_min * 1e3:.1f} ms")
 
     form = action_form(op, ("J",))
     jvalues = (5, 50, 500)
@@ -140,6 +145,52 @@ def main(argv=None):
             if not agree:
                 print("ERROR: values differ", ref, value)
                 return 1
+
+    # issue 11: a tensor component between numeric kets against the angular-momentum case
+    from amalgebra.tensors import racah_tensor
+    C1 = racah_tensor(1)
+    L = AngularMomentum("L")
+    cases = {"L.z": (L.z, bra(3, 1, "L"), ket(3, 1, "L")), "L.plus": (L.plus, bra(3, 1, "L"), ket(3, 0, "L")),
+             "C1[1]": (C1[1], bra(3, 1, "L"), ket(2, 0, "L"))}
+    per_case = {}
+    for name, (o, b, k) in cases.items():
+        matrix_element(b, o, k)
+        raw = []
+        for _ in range(args.repeat * 20):
+            clear_cache()
+            t0 = time.perf_counter()
+            matrix_element(b, o, k)
+            raw.append(time.perf_counter() - t0)
+        per_case[name] = (statistics.median(raw), min(raw))
+    for name, (med, mn) in per_case.items():
+        print(f"matrix_element <3 1|{name}|..> numeric kets: median {med * 1e3:.3f} ms, min {mn * 1e3:.3f} ms")
+    print(f"ratio tensor / angular momentum (C1[1] vs L.plus) by median "
+          f"{per_case['C1[1]'][0] / per_case['L.plus'][0]:.2f}, by min {per_case['C1[1]'][1] / per_case['L.plus'][1]:.2f}"
+          f" (target <= 2)")
+
+    # issue 16: the symbolic-j closed form <j 1|O^4|j 0> evaluated at j = 50 (SymPy cache warm, as in a sweep)
+    form = action_form(op, ("J",))
+    raw = []
+    for _ in range(args.repeat * 20):
+        t0 = time.perf_counter()
+        form.amplitude((1,), {"J": (50, 0)})
+        raw.append(time.perf_counter() - t0)
+    print(f"symbolic-j closed form of <j 1|O^4|j 0> at j=50, warm: median {statistics.median(raw) * 1e3:.3f} ms, "
+          f"min {min(raw) * 1e3:.3f} ms per element (issue 16 target < 0.2 ms)")
+
+    # issue 11: the 40 x 40 hyperfine + Zeeman matrix with two symbols, blocks and all eigenvalues
+    A2, B2 = symbols("A B", real=True)
+    Iop2, Jop2 = AngularMomentum("I"), AngularMomentum("J")
+    ham2 = A2 * dot(Iop2, Jop2) + B2 * (2 * Jop2.z - Rational(1, 1000) * Iop2.z)
+    solved = {}
+
+    def eig():
+        hm2 = hamiltonian_matrix(ham2, {"I": Rational(9, 2), "J": Rational(3, 2)})
+        solved["r"] = [v.complete for _, v in hm2.eigenvalues()]
+
+    t_eig = median_time(eig, max(1, args.repeat // 3))
+    print(f"40x40 I=9/2, J=3/2, two symbols: matrix, 13 blocks and all eigenvalues {t_eig:.2f} s (target < 3 s); "
+          f"blocks solved exactly: {sum(solved['r'])} of {len(solved['r'])}")
 
     A, gJ, gI, muB, B = symbols("A g_J g_I mu_B B", real=True)
     Iop, Jop = AngularMomentum("I"), AngularMomentum("J")

@@ -78,7 +78,7 @@ def test_adjoint_and_hermiticity():
     (Ad ** 2, "a.create**2", "{a^{\\dagger}}^{2}"),
     (Ad ** 2 * B * Na ** 3, "a.create**2*b.annihilate*a.number**3",
      "{a^{\\dagger}}^{2} b \\hat{N}_{a}^{3}"),
-    (BosonMode("c1").create, "c1.create", "{\\mathrm{c1}^{\\dagger}}"),
+    (BosonMode("c1").create, "c1.create", "{{c_{1}}^{\\dagger}}"),  # issue 15: digits subscripted
     (a, "BosonMode('a')", "a"),
 ])
 def test_printing(expr, text, tex):
@@ -138,7 +138,6 @@ def _build(terms):
     return sum((Integer(c) * Mul(*[LETTERS[i] for i in w]) for c, w in terms), Integer(0))
 
 
-@settings(max_examples=60)
 @given(poly)
 @example([(1, [0, 1])])
 def test_canonical_idempotent(terms):
@@ -147,7 +146,6 @@ def test_canonical_idempotent(terms):
     assert canonical(once) == once
 
 
-@settings(max_examples=40)
 @given(poly)
 @example([(1, [0, 0, 1, 1]), (-2, [4, 3, 5])])
 def test_canonical_agrees_with_truncated_matrices(terms):
@@ -161,7 +159,6 @@ def test_canonical_agrees_with_truncated_matrices(terms):
     assert np.allclose(lhs[:, cols], rhs[:, cols], atol=1e-9)
 
 
-@settings(max_examples=40)
 @given(poly, poly)
 def test_commutator_is_antisymmetric_and_matches_matrices(t1, t2):
     x, y = _build(t1), _build(t2)

@@ -170,7 +170,6 @@ word = st.lists(st.sampled_from(range(len(LETTERS))), min_size=1, max_size=4)
 poly = st.lists(st.tuples(st.integers(-3, 3), word), min_size=1, max_size=3)
 
 
-@settings(max_examples=40)
 @given(poly, st.integers(0, 3), st.integers(0, 3))
 @example([(1, [0, 1, 1])], 0, 2)
 def test_action_agrees_with_truncated_matrices(terms, na, nb):

@@ -383,7 +383,6 @@ def test_sixj_numeric_substitution_full(d, x, y):
     assert _check_sixj_form(d, x, y, limit=12) > 0
 
 
-@settings(max_examples=60)
 @given(tj=st.integers(0, 60), j2=st.sampled_from(SMALL_J2), data=st.data())
 @example(tj=0, j2=H, data=None)
 def test_cg_hypothesis(tj, j2, data):
@@ -404,7 +403,6 @@ def test_cg_hypothesis(tj, j2, data):
     assert form.xreplace({j: j1, m: M}) == oracle_value(expected)
 
 
-@settings(max_examples=40)
 @given(ta=st.integers(0, 40), tb=st.integers(0, 40), tc=st.integers(0, 40),
        shape=st.sampled_from(SIXJ_SHAPES))
 def test_sixj_hypothesis(ta, tb, tc, shape):
@@ -542,7 +540,6 @@ def _sixj_one_symbol_shapes(draw):
     return top + bottom
 
 
-@settings(max_examples=80)
 @given(args=st.one_of(_sixj_one_symbol_shapes(), _one_symbol_args(6)))
 @example(args=[j, j, S(1), j, j, S(1)])
 @example(args=[j, j + H, H, j + H, j, H])
@@ -567,7 +564,6 @@ def test_sixj_random_one_symbol_shapes(args):
     event(f"accepted shape, {'some' if checked else 'no'} admissible points")
 
 
-@settings(max_examples=40)
 @given(shape=_one_symbol_args(2), j2=st.integers(0, 4).map(lambda n: Rational(n, 2)),
        m1_off=_offset, m2_index=st.integers(0, 4), data=st.data())
 @example(shape=[j, j], j2=1, m1_off=-j, m2_index=0, data=None)

@@ -29,7 +29,6 @@ def unpacked_factorial(n):
     return dict(zip(kernels._primes[:length], kernels._unpack(kernels._fact_pack[n], length))) if length else {}
 
 
-@settings(max_examples=50)
 @given(st.integers(0, 600))
 def test_factorial_vectors_follow_legendre(n):
     # Legendre's formula (common practice, no source), checked against sympy.factorint of n!
@@ -59,7 +58,6 @@ def test_signed_exponents_survive_packing():
     assert value == Fraction(math.factorial(10) * math.factorial(7), math.factorial(12) ** 2)
 
 
-@settings(max_examples=60)
 @given(st.integers(1, 10 ** 6), st.integers(1, 5000))
 def test_multiply_sqrt_is_canonical(a, k):
     # sqrt(a) * sqrt(k) = u sqrt(v) with v squarefree (common practice, no source).
@@ -74,7 +72,6 @@ def _sq(triple):
     return Fraction(n * n * s, d * d) * (1 if n >= 0 else -1)
 
 
-@settings(max_examples=40)
 @given(st.integers(0, 120), st.integers(0, 120), st.data())
 def test_threej_kernel_triples_are_reduced(t1, t2, data):
     # gcd(n, d) = 1, d > 0, s squarefree (checked by sympy.factorint).
@@ -163,7 +160,6 @@ def _split_by_factorint(numerator, denominator):
     return u, w, s
 
 
-@settings(max_examples=80)
 @given(st.lists(st.tuples(st.integers(0, 160), st.integers(-3, 3)), min_size=1, max_size=12),
        st.integers(-10 ** 30, 10 ** 30).filter(bool))
 def test_split_square_matches_direct_factorisation(terms, factor):
@@ -189,7 +185,6 @@ def test_split_square_zero_and_trivial_vectors():
     assert kernels._split_square(kernels._fact_pack[4] - kernels._fact_pack[7], 7, 1) == (1, 210, 210)
 
 
-@settings(max_examples=40)
 @given(st.integers(0, 60), st.integers(0, 60), st.integers(0, 60), st.data())
 def test_sorted_sixj_kernel_agrees_with_racah_sum_route(t1, t2, t4, data):
     # The direct-multiplicity radicand of sixj_kernel_sorted against the generic Racah sum plus the

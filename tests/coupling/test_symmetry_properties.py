@@ -89,7 +89,6 @@ def regge_variant(args, rows, cols, transpose):
 # ---------------------------------------------------------------- 3j
 
 
-@settings(max_examples=60)
 @given(threej_args(), st.sampled_from(PERMS), st.sampled_from(PERMS), st.booleans())
 @example((4, 4, 4, 2, -2, 0), (1, 0, 2), (0, 1, 2), False)      # m -> -m, an odd row swap
 @example((6, 4, 2, 0, 0, 0), (0, 1, 2), (0, 1, 2), True)        # a pure Regge transposition
@@ -112,7 +111,6 @@ def sq_of(value):
     return -result if value.is_negative else result
 
 
-@settings(max_examples=40)
 @given(threej_args(), st.sampled_from(PERMS), st.sampled_from(PERMS), st.booleans())
 def test_threej_symmetric_variant_is_a_cache_hit(args, rows, cols, transpose):
     variant, _ = regge_variant(args, rows, cols, transpose)
@@ -145,7 +143,6 @@ def regge_sixj_variant(args, rows, cols):
 ROWS4 = [(0, 1, 2, 3), (1, 0, 2, 3), (2, 3, 0, 1), (3, 1, 2, 0), (1, 2, 3, 0), (0, 2, 1, 3), (3, 2, 1, 0)]
 
 
-@settings(max_examples=60)
 @given(sixj_args(), st.sampled_from(ROWS4), st.sampled_from(PERMS))
 @example((4, 4, 4, 4, 4, 4), (1, 0, 2, 3), (0, 2, 1))
 def test_sixj_all_144_symmetries(args, rows, cols):
@@ -160,7 +157,6 @@ def test_sixj_all_144_symmetries(args, rows, cols):
     assert sixj_key(*variant) == sixj_key(*args)
 
 
-@settings(max_examples=30)
 @given(sixj_args(), st.sampled_from(ROWS4), st.sampled_from(PERMS))
 def test_sixj_symmetric_variant_is_a_cache_hit(args, rows, cols):
     variant = regge_sixj_variant(args, rows, cols)
@@ -197,7 +193,6 @@ def ref_ninej(*t):
     return total
 
 
-@settings(max_examples=30)
 @given(ninej_args(), st.sampled_from(PERMS), st.sampled_from(PERMS), st.booleans())
 def test_ninej_all_72_symmetries(args, rows, cols, transpose):
     # DLMF 34.6.? / Edmonds 6.4: invariant under transposition, (-1)^(sum of the nine j) under odd
@@ -217,7 +212,6 @@ def test_ninej_all_72_symmetries(args, rows, cols, transpose):
 # ---------------------------------------------------------------- orthogonality and sum rules, large j
 
 
-@settings(max_examples=25)
 @given(st.integers(0, MAX), st.integers(0, MAX), st.data())
 def test_threej_orthogonality_large_j(t1, t2, data):
     # DLMF 34.3.16: sum_{m1} (2j3+1) (j1 j2 j3; m1, -m1-m3, m3)^2 = 1 (exact, squares are rational),
@@ -236,7 +230,6 @@ def test_threej_orthogonality_large_j(t1, t2, data):
         assert abs(cross) < 1e-12
 
 
-@settings(max_examples=25)
 @given(sixj_args(tmax=60))
 def test_sixj_orthogonality_large_j(args):
     # 6j orthogonality, Edmonds 6.2.9 / DLMF 34.5.? (from memory):
@@ -250,7 +243,6 @@ def test_sixj_orthogonality_large_j(args):
     assert total == 1
 
 
-@settings(max_examples=20)
 @given(sixj_args(tmax=40), st.data())
 def test_sixj_racah_sum_rule_large_j(args, data):
     # Racah's sum rule (Edmonds 6.2.11, from memory):
@@ -276,7 +268,6 @@ def _canonical_parts(value):
     return coeff, int(rest.base)
 
 
-@settings(max_examples=40)
 @given(threej_args(), sixj_args())
 def test_results_are_rational_times_squarefree_root(a3, a6):
     # common practice, no source: r * sqrt(s), r rational, s a squarefree integer > 1 (or no root).

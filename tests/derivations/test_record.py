@@ -173,3 +173,25 @@ def test_results_the_store_cannot_hold_are_refused_at_once():
     error = floating.run().error
     assert isinstance(error, ParseError)
     assert str(error).startswith("result 'approx' cannot be stored: expr=0.5")
+
+
+def test_matrix_tuple_and_dict_results_are_accepted_and_frozen():
+    from sympy import ImmutableMatrix
+
+    @derivation
+    def kinds(d):
+        d.result("H", Matrix([[x, 1], [1, -x]]))
+        d.result("pair", [x, Matrix([[1]])])
+        d.result("table", {"upper": x, "lower": (x, 2)})
+
+    rec = kinds.run()
+    assert rec.ok, rec.error
+    assert isinstance(rec.results["H"], ImmutableMatrix) and rec.results["H"] == Matrix([[x, 1], [1, -x]])
+    assert rec.results["pair"] == (x, ImmutableMatrix([[1]])) and isinstance(rec.results["pair"], tuple)
+    assert rec.results["table"] == {"upper": x, "lower": (x, 2)}
+
+    @derivation
+    def text(d):
+        d.result("r", {"a": "x + 1"})
+
+    assert "cannot be stored" in str(text.run().error)

@@ -6,6 +6,8 @@ import sys
 import textwrap
 from pathlib import Path
 
+import pytest
+
 from amalgebra.derivations.runner import (
     EXIT_FAILED, EXIT_OK, EXIT_UNRECORDED, discover, record_folder, run_folder,
 )
@@ -77,11 +79,130 @@ def test_load_error_and_malformed_store_fail(make_folder, good_source):
     out = run_folder(folder)
     assert out.exit_code == EXIT_FAILED and isinstance(out.files[0].load_error, SyntaxError)
     folder = make_folder({"deriv_good.py": good_source})
-    (folder / "deriv_good.results.toml").write_text('format = "amalgebra-results-1"\n[x]\ny = "os.system(1)"\n')
+    store = folder / "deriv_good.results.toml"
+    store.write_text('format = "amalgebra-results-1"\n[x]\ny = "os.system(1)"\n')
     out = run_folder(folder)
     assert out.exit_code == EXIT_FAILED
     (good,) = [f for f in out.files if f.name == "deriv_good.py"]
-    assert str(good.store_error).startswith(f"{folder / 'deriv_good.results.toml'}:3: ")
+    assert [c.status for c in good.comparisons if c.derivation == "x"] == ["stale"]
+
+
+def test_one_unreadable_entry_is_reported_counted_and_fails(make_folder, good_source):
+    # issue 15: a hand-typed decimal no longer spoils the file; a broken entry is one error
+    folder = make_folder({"deriv_good.py": good_source})
+    record_folder(folder)
+    store = folder / "deriv_good.results.toml"
+    text = store.read_text()
+    store.write_text(text.replace('at_half = "9/4"', 'at_half = "2.25"')
+                     .replace('one = "sin(theta)^2 + cos(theta)^2"', 'one = "1 +* 1"'))
+    out = run_folder(folder)
+    statuses = {(c.derivation, c.result): c.status for c in out.comparisons}
+    # 2.25 = 9/4 exactly (arithmetic, common practice, no source)
+    assert statuses == {("binomial", "square"): "identical", ("binomial", "at_half"): "reprinted",
+                        ("pythagoras", "one"): "unreadable"}
+    assert out.exit_code == EXIT_FAILED
+    (bad,) = [c for c in out.comparisons if c.status == "unreadable"]
+    line = text.splitlines().index('one = "sin(theta)^2 + cos(theta)^2"') + 1
+    assert bad.line == line and f"{store}:{line}:" in bad.diff
+
+    from amalgebra.cli import main
+
+    import contextlib
+    import io
+
+    buffer = io.StringIO()
+    with contextlib.redirect_stdout(buffer):
+        code = main(["check", str(folder), "-q"])
+    printed = buffer.getvalue()
+    assert code == EXIT_FAILED
+    assert "pythagoras.one UNREADABLE" in printed and "1 unreadable" in printed
+    assert "0 changed" in printed      # and the other results were still compared
+    assert "1 identical, 1 reprinted" in printed
+
+
+def test_a_results_file_that_cannot_be_read_counts_every_result(make_folder, good_source):
+    folder = make_folder({"deriv_good.py": good_source})
+    (folder / "deriv_good.results.toml").mkdir()
+    out = run_folder(folder)
+    assert out.exit_code == EXIT_FAILED
+    assert [c.status for c in out.comparisons] == ["unreadable"] * 3
+    assert "is a directory" in str(out.files[0].store_error)
+    assert record_folder(folder).exit_code == EXIT_FAILED   # and record does not write there
+    assert (folder / "deriv_good.results.toml").is_dir()
+
+
+def test_problems_outside_entries_fail_the_run(make_folder, good_source):
+    folder = make_folder({"deriv_good.py": good_source})
+    record_folder(folder)
+    store = folder / "deriv_good.results.toml"
+    store.write_text(store.read_text() + "stray words\n")
+    out = run_folder(folder)
+    assert out.exit_code == EXIT_FAILED
+    (problem,) = out.files[0].store_problems
+    assert "expected a comment, a [section] or an entry" in problem and "stray" not in problem
+
+
+@pytest.mark.skipif(not hasattr(os, "symlink"), reason="needs symbolic links")
+def test_record_never_writes_through_a_link(make_folder, good_source, tmp_path_factory):
+    folder = make_folder({"deriv_good.py": good_source})
+    victim = tmp_path_factory.mktemp("outside") / "victim.txt"
+    victim.write_text("precious\n")
+    (folder / "deriv_good.results.toml").symlink_to(victim)
+    out = record_folder(folder)
+    assert out.exit_code == EXIT_FAILED and not out.files[0].recorded
+    assert "is a symbolic link" in str(out.files[0].store_error)
+    assert victim.read_text() == "precious\n"
+    assert run_folder(folder).exit_code == EXIT_FAILED       # check refuses to read it too
+
+
+STRUCTURED_SOURCE = textwrap.dedent('''
+    """Structured results of an invented two-level system (common practice, no source)."""
+    from sympy import Matrix, Rational, sqrt, symbols
+    from amalgebra.derivations import derivation
+
+    @derivation
+    def two_level(d):
+        A, b = symbols("A b")
+        H = Matrix([[A, b], [b, -A]])
+        d.step("trace", H.trace(), 0, "diagonal entries cancel")
+        d.result("H", H)
+        d.result("levels", (sqrt(A**2 + b**2), -sqrt(A**2 + b**2)))
+        d.result("named", {"upper": sqrt(A**2 + b**2), "lower": -sqrt(A**2 + b**2)})
+        d.result("by_m", {Rational(1, 2): A, Rational(-1, 2): -A})
+        d.result("mhz", Rational(854335326363, 125000000))
+''')
+
+
+def test_structured_results_record_and_check(make_folder):
+    folder = make_folder({"deriv_two.py": STRUCTURED_SOURCE})
+    assert record_folder(folder).exit_code == EXIT_OK
+    text = (folder / "deriv_two.results.toml").read_text()
+    assert 'mhz = "6834.682610904"' in text and "H = { matrix = [" in text
+    out = run_folder(folder)
+    assert out.exit_code == EXIT_OK
+    assert {c.status for c in out.comparisons} == {"identical"}
+    store = folder / "deriv_two.results.toml"
+    store.write_text(text.replace('"6834.682610904"', "6834.682610905"))
+    out = run_folder(folder)
+    assert [c.result for c in out.comparisons if c.status == "changed"] == ["mhz"]
+
+
+def test_exact_mode_fails_results_equal_only_numerically(make_folder):
+    source = textwrap.dedent('''
+        from sympy import symbols
+        from amalgebra.derivations import derivation
+
+        @derivation
+        def root(d):
+            x = symbols("x", positive=True)
+            d.result("r", x + 1)
+    ''')
+    folder = make_folder({"deriv_root.py": source})
+    (folder / "deriv_root.results.toml").write_text(
+        'format = "amalgebra-results-2"\n[root]\nr = "sqrt(x^2 + 2*x + 1)"\n')
+    out = run_folder(folder)
+    assert out.exit_code == EXIT_OK and out.comparisons[0].method == "numeric"
+    assert run_folder(folder, exact=True).exit_code == EXIT_FAILED
 
 
 def test_exact_mode_fails_numeric_only_steps(make_folder):
@@ -120,3 +241,37 @@ def test_report_is_byte_identical_under_different_hash_seeds(make_folder, good_s
         outputs.add(done.stdout)
     assert len(outputs) == 1
     assert b"\\begin{align}" in outputs.pop()
+
+
+@pytest.mark.skipif(not hasattr(os, "symlink"), reason="needs symbolic links")
+def test_the_record_command_reports_a_refused_link(make_folder, good_source, tmp_path_factory,
+                                                   capsys):
+    from amalgebra.cli import main
+
+    folder = make_folder({"deriv_good.py": good_source})
+    victim = tmp_path_factory.mktemp("outside") / "passwd"
+    victim.write_text("root:x:0:0\n")
+    (folder / "deriv_good.results.toml").symlink_to(victim)
+    assert main(["record", str(folder), "-q"]) == EXIT_FAILED
+    out = capsys.readouterr().out
+    assert "NOT recorded deriv_good.py" in out and "is a symbolic link" in out
+    assert "root:x" not in out and victim.read_text() == "root:x:0:0\n"
+    assert main(["check", str(folder), "-q"]) == EXIT_FAILED
+    out = capsys.readouterr().out
+    assert "root:x" not in out and "3 unreadable" in out
+
+
+def test_check_with_a_tampered_huge_value_fails_fast(make_folder, good_source):
+    # issue 17: (a + b + c + d + e)^40 - 1 in a results file ran `check` for over 120 s
+    import time
+
+    folder = make_folder({"deriv_good.py": good_source})
+    record_folder(folder)
+    store = folder / "deriv_good.results.toml"
+    store.write_text(store.read_text().replace('"(x + 1)^2"', '"(a + b + c + d + e)^40 - 1"'))
+    start = time.monotonic()
+    out = run_folder(folder)
+    assert time.monotonic() - start < 60              # a hang guard, not a speed test
+    assert out.exit_code == EXIT_FAILED
+    (changed,) = [c for c in out.comparisons if c.status == "changed"]
+    assert changed.result == "square" and changed.method == "numeric"

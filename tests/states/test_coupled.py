@@ -102,7 +102,6 @@ def test_chain_stretched_and_counts():
     assert len(coupled_basis([1, 1, 1], ("a", "b", "c"))) == 27
 
 
-@settings(max_examples=40)
 @given(st.integers(0, 4), st.integers(0, 3), st.data())
 def test_uncoupled_coupled_round_trip(t1, t2, data):
     # |m1>|m2> -> sum_J <..|J M> |J M> -> back: identity (orthogonality of CG coefficients)

@@ -10,7 +10,7 @@ import pickle
 import pytest
 from hypothesis import example, given, settings
 from hypothesis import strategies as st
-from sympy import I, KroneckerDelta, Rational, Symbol, adjoint, conjugate, latex, pretty, srepr, sstr
+from sympy import Add, I, KroneckerDelta, Rational, Symbol, adjoint, conjugate, latex, pretty, srepr, sstr
 
 from amalgebra.errors import NotNumericError, ProjectionError, QuantumNumberError, StateError
 from amalgebra.states.kets import (Bra, Ket, ProductBra, ProductKet, bra, components, from_components,
@@ -159,7 +159,8 @@ def test_components_round_trip_and_refusals():
     comp = components(psi)
     assert comp == {ket(1, 0): a - b, ket(1, 1): b}
     assert from_components(comp).expand() == psi.expand()
-    for bad in (ket(1, 0) * ket(1, 1), bra(1, 0) + ket(1, 0), a, ket(1, 0) ** 2):
+    # Add(...) directly: bra + ket is already refused by ``+`` (issue 17); components refuses it too
+    for bad in (ket(1, 0) * ket(1, 1), Add(bra(1, 0), ket(1, 0)), a, ket(1, 0) ** 2):
         with pytest.raises(StateError):
             components(bad)
 
@@ -170,7 +171,6 @@ def test_tensor_distributes():
     assert out == 2 * product_ket(up, ket(0, 0, "B")) + 2 * product_ket(dn, ket(0, 0, "B"))
 
 
-@settings(max_examples=40)
 @given(st.integers(0, 12), st.data())
 @example(twice_j=1, data=None)
 def test_inner_is_hermitian(twice_j, data):

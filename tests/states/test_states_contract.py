@@ -11,9 +11,9 @@ import pytest
 from sympy import Basic, Rational, Symbol, latex, pretty, sstr
 
 import amalgebra.states as states_pkg
-from amalgebra.states import action, actionform, coupled, hamiltonian, kets, manyspin
+from amalgebra.states import action, actionform, basis, coupled, eigen, engine, hamiltonian, kets, manyspin
 
-MODULES = [kets, action, actionform, coupled, hamiltonian, manyspin]
+MODULES = [kets, action, actionform, engine, basis, eigen, coupled, hamiltonian, manyspin]
 h = Rational(1, 2)
 j, m = Symbol("j", nonnegative=True), Symbol("m")
 

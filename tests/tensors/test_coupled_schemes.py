@@ -18,7 +18,7 @@ from sympy import Rational, S, sqrt
 
 from amalgebra.coupling import sixj
 from amalgebra.errors import ConventionError, QuantumNumberError
-from amalgebra.reduced import convert_reduced
+from amalgebra.tensors.wigner_eckart import convert_reduced
 from amalgebra.tensors.coupled_schemes import (angular_momentum_reduced, projected_reduced,
                                                projection_theorem, reduced_part1, reduced_part2,
                                                reduced_product_same_space, reduced_tensor_product,
@@ -314,7 +314,7 @@ def test_part_formulas_against_coupled_kets_of_the_states_layer(l, s):
     # a second, exact and independent route: coupled kets and matrix elements of amalgebra.states
     # (L and S as rank-1 tensors: <l||L||l> = sqrt(l(l+1)(2l+1)), design.md)
     from amalgebra.algebra import AngularMomentum
-    from amalgebra.reduced import wigner_eckart
+    from amalgebra.tensors.wigner_eckart import wigner_eckart
     from amalgebra.states.action import matrix_element
     from amalgebra.states.coupled import coupled_ket
 

@@ -1,6 +1,6 @@
 """Irreducible decomposition: sums reproduce the operator, parts have the stated rank and weight.
 
-Rank and weight are checked on explicit float matrices (amalgebra.numeric.to_matrix, whose
+Rank and weight are checked on explicit float matrices (amalgebra.matrices.explicit.to_matrix, whose
 matrices are independent of the decomposition code): for a part X of rank k and weight q,
 sum_a [J_a, [J_a, X]] = k(k+1) X and [J_z, X] = q X (Racah 1942, definition of tensors).
 """
@@ -15,7 +15,7 @@ from sympy import Add, I, Matrix, Rational, Symbol, expand, latex, pretty, sqrt,
 
 from amalgebra.algebra import AngularMomentum, canonical, dot
 from amalgebra.errors import NotNumericError, OperatorError, TensorOperatorError
-from amalgebra.numeric import to_matrix
+from amalgebra.matrices.explicit import to_matrix
 from amalgebra.testing.strategies import operator_polynomials
 from amalgebra.tensors.irreducible import (TensorForm, TensorFormTerm, bilinear_tensor_form, decompose,
                                            recombine, rotation_commutator, spin_hamiltonian_tensor_form)
@@ -131,7 +131,7 @@ def test_tensor_atoms_products_have_the_coupled_rank():
     assert sorted(decompose(V.x * V.x + V.y * V.y + V.z * V.z)) == [0]        # r.r is a scalar
 
 
-@settings(max_examples=25, database=None, deadline=None)
+@settings(database=None, deadline=None)
 @given(operator_polynomials(labels=("J",), max_terms=3, max_weight=3))
 def test_random_polynomials(poly):
     parts = decompose(poly)
@@ -139,7 +139,7 @@ def test_random_polynomials(poly):
     _check_parts(parts, {"J": Rational(3, 2)})
 
 
-@settings(max_examples=10, database=None, deadline=None)
+@settings(database=None, deadline=None)
 @given(operator_polynomials(labels=("I", "S"), max_terms=2, max_weight=3))
 def test_random_two_label_polynomials(poly):
     parts = decompose(poly)
@@ -248,7 +248,7 @@ def test_bilinear_recombination_is_the_cartesian_form_symbolic():
 _RATIONALS = st.fractions(min_value=-3, max_value=3, max_denominator=6)
 
 
-@settings(max_examples=20, database=None, deadline=None)
+@settings(database=None, deadline=None)
 @given(st.lists(_RATIONALS, min_size=9, max_size=9), st.sampled_from(["IS", "SS", "SB"]))
 @example([1, 2, 3, 2, 0, 5, 3, 5, -1], "SS")                  # symmetric
 @example([0, 2, -3, -2, 0, 5, 3, -5, 0], "IS")                # antisymmetric

@@ -7,8 +7,8 @@ from sympy import I, Rational, S, expand, sqrt, symbols
 
 from amalgebra.algebra import AngularMomentum, canonical, dot
 from amalgebra.errors import OperatorError, QuantumNumberError, TensorOperatorError
-from amalgebra.numeric import to_matrix
-from amalgebra.reduced import reduced_from_table
+from amalgebra.matrices.explicit import to_matrix
+from amalgebra.tensors.wigner_eckart import reduced_from_table
 from amalgebra.tensors.coupled_schemes import angular_momentum_reduced, reduced_product_same_space
 from amalgebra.tensors.products import (TensorComponents, angular_momentum_tensor, cartesian_to_spherical,
                                         cross_product, quadrupole_tensor, scalar_product,
@@ -25,7 +25,7 @@ def _ms(j):
 
 
 def _table(components, j):
-    """{(m', q, m): <j m'|X_q|j m>} from explicit exact matrices (amalgebra.numeric)."""
+    """{(m', q, m): <j m'|X_q|j m>} from explicit exact matrices (amalgebra.matrices.explicit)."""
     mats = {q: to_matrix(c, {"J": j}) if c != 0 else None for q, c in components.as_dict().items()}
     table = {}
     for r, mp in enumerate(_ms(j)):

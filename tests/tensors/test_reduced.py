@@ -1,4 +1,4 @@
-"""The Wigner-Eckart engine (amalgebra.reduced) against explicit matrices and an independent oracle."""
+"""The Wigner-Eckart engine (amalgebra.tensors.wigner_eckart) against explicit matrices and an independent oracle."""
 
 import importlib.util
 import pathlib
@@ -15,8 +15,8 @@ from sympy import (And, Rational, S, Symbol, conjugate, latex, pretty, simplify,
 from amalgebra.algebra import AngularMomentum
 from amalgebra.errors import (ConventionError, ProjectionError, QuantumNumberError,
                               TensorOperatorError)
-from amalgebra.numeric import to_matrix
-from amalgebra.reduced import (ReducedMatrixElement, convert_reduced, element_table,
+from amalgebra.matrices.explicit import to_matrix
+from amalgebra.tensors.wigner_eckart import (ReducedMatrixElement, convert_reduced, element_table,
                                hermitian_conjugate_reduced, reduced_from_element,
                                reduced_from_table, selection_rules, wigner_eckart,
                                wigner_eckart_factor)
@@ -139,7 +139,7 @@ valid_triples = st.tuples(st.integers(0, 8), st.integers(0, 4), st.integers(0, 8
     lambda t: (t[0] + 2 * t[1] + t[2]) % 2 == 0 and abs(t[0] - t[2]) <= 2 * t[1] <= t[0] + t[2])
 
 
-@settings(max_examples=60, database=None)
+@settings(database=None)
 @given(valid_triples, st.data(), st.sampled_from(["edmonds", "cg"]))
 @example((3, 1, 1), None, "edmonds")
 def test_wigner_eckart_round_trip(triple, data, convention):
@@ -156,7 +156,7 @@ def test_wigner_eckart_round_trip(triple, data, convention):
         assert reduced_from_element(element, jp, mp, k, q, j, m, convention) == R
 
 
-@settings(max_examples=60, database=None)
+@settings(database=None)
 @given(st.integers(0, 6), st.integers(0, 3), st.integers(0, 6), st.data())
 def test_selection_rules_agree_with_zeros(tjp, k, tj, data):
     jp, j = Rational(tjp, 2), Rational(tj, 2)
@@ -255,7 +255,7 @@ def test_symbolic_j_stays_symbolic():
 def test_text_is_never_parsed_as_a_reduced_element(tmp_path, monkeypatch):
     # Safety rule: strings are data, never code; text is refused with a typed error.
     from amalgebra.errors import NotNumericError
-    from amalgebra.reduced import wigner_eckart
+    from amalgebra.tensors.wigner_eckart import wigner_eckart
 
     marker = tmp_path / "ran"
     with pytest.raises(NotNumericError, match="not text"):

@@ -10,7 +10,7 @@ from sympy import Matrix, Rational, S, Symbol, adjoint, latex, sqrt, zeros
 from amalgebra.algebra import AngularMomentum
 from amalgebra.errors import (ConventionError, OperatorError, ProjectionError, QuantumNumberError,
                               TensorOperatorError)
-from amalgebra.reduced import ReducedMatrixElement
+from amalgebra.tensors.wigner_eckart import ReducedMatrixElement
 from amalgebra.tensors.spherical import (SphericalTensor, TensorComponent, racah_tensor,
                                          tensor_matrix, unit_tensor)
 
@@ -67,7 +67,7 @@ def test_bad_input():
 
 def _direct_sum_J(js):
     J = AngularMomentum("J")
-    from amalgebra.numeric import to_matrix
+    from amalgebra.matrices.explicit import to_matrix
     blocks = {c: [to_matrix(J.component(c), {"J": j}) for j in js] for c in ("z", "plus", "minus")}
     out = {}
     for c, mats in blocks.items():

@@ -1,6 +1,6 @@
 """Contract tests over every Basic subclass of the tensor layer: args, rebuild, pickle, printing.
 
-A walker finds every Basic subclass defined in amalgebra.reduced and amalgebra.tensors and fails
+A walker finds every Basic subclass defined in amalgebra.tensors.wigner_eckart and amalgebra.tensors and fails
 when one has no sample here (style.md item 2).
 """
 
@@ -15,11 +15,11 @@ import pytest
 from sympy import Basic, Rational, latex, pretty, sstr
 from sympy.core.symbol import Str
 
-from amalgebra.reduced import ReducedMatrixElement
+from amalgebra.tensors.wigner_eckart import ReducedMatrixElement
 from amalgebra.tensors import (SphericalTensor, TensorComponent, TensorComponents, VectorComponent,
                                VectorOperator)
 
-MODULES = ["amalgebra.reduced", "amalgebra.tensors.spherical", "amalgebra.tensors.products",
+MODULES = ["amalgebra.tensors.wigner_eckart", "amalgebra.tensors.spherical", "amalgebra.tensors.products",
            "amalgebra.tensors.vectors", "amalgebra.tensors.irreducible", "amalgebra.tensors.coupled_schemes"]
 
 SAMPLES = {

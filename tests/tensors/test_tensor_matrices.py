@@ -1,4 +1,4 @@
-"""Matrices of tensor and vector operator components on direct sums of multiplets (amalgebra.numeric).
+"""Matrices of tensor and vector operator components on direct sums of multiplets (amalgebra.matrices.explicit).
 
 Oracles: ``tensor_oracle.py`` (numpy only: Racah-formula Clebsch-Gordan coefficients, DLMF 34.3.7,
 and the Edmonds 1957 eq. 5.4.1 definition of the reduced element), numpy's Kronecker product, and
@@ -21,7 +21,7 @@ from sympy import Add, I, Matrix, Mul, Rational, S, expand, sqrt, symbols, zeros
 from amalgebra.algebra import AngularMomentum
 from amalgebra.bosons import boson_modes
 from amalgebra.errors import NotNumericError, OperatorError, QuantumNumberError
-from amalgebra.numeric import to_matrix, verify_identity
+from amalgebra.matrices.explicit import to_matrix, verify_identity
 from amalgebra.tensors import SphericalTensor, VectorOperator, racah_tensor, unit_tensor
 
 _spec = importlib.util.spec_from_file_location(
@@ -94,7 +94,7 @@ def test_components_match_oracle(jlist, k):
     assert any(np.abs(m).max() > 0.1 for m in ref.values())
 
 
-@settings(max_examples=15, deadline=None)
+@settings(deadline=None)
 @given(st.sampled_from([([0, 1, 2], 1), (["1/2", "3/2"], 2), ([1, 2], 3), (["1/2", "3/2"], "1/2")]),
        st.integers(0, 2**32 - 1))
 def test_random_reduced_match_oracle(space, seed):
@@ -399,7 +399,7 @@ def test_verify_identity_on_direct_sums():
 
 _DETERMINISM = """
 from amalgebra.algebra import AngularMomentum
-from amalgebra.numeric import to_matrix
+from amalgebra.matrices.explicit import to_matrix
 from amalgebra.tensors import SphericalTensor, VectorOperator
 J = AngularMomentum("J")
 T, U, V = SphericalTensor("T", 1, "J"), SphericalTensor("U", 2, "J"), VectorOperator("V", "J")
@@ -460,7 +460,7 @@ _ATOMS = _oracle_atoms()
 _POOL = list(_ATOMS)
 
 
-@settings(max_examples=25, deadline=None)
+@settings(deadline=None)
 @given(st.lists(st.tuples(st.integers(-3, 3), st.lists(st.integers(0, len(_POOL) - 1), min_size=1, max_size=4)),
                 min_size=1, max_size=4))
 def test_random_words_match_numpy_products(terms):
@@ -496,7 +496,7 @@ def test_hermitian_families_give_hermitian_matrices():
 
 
 def test_cg_convention():
-    # <j'||T||j>_edmonds = sqrt(2j'+1) <j'||T||j>_cg (design.md; amalgebra.reduced docs, Edmonds 1957
+    # <j'||T||j>_edmonds = sqrt(2j'+1) <j'||T||j>_cg (design.md; amalgebra.tensors.wigner_eckart docs, Edmonds 1957
     # eq. 5.4.1 vs the Clebsch-Gordan form): CG-form values give the oracle's Edmonds matrices
     jlist, k = ["1/2", "3/2"], 1
     T = SphericalTensor("T", k, "J")

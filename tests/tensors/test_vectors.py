@@ -7,7 +7,7 @@ from sympy import I, Rational, adjoint, expand, sqrt, zeros
 
 from amalgebra.algebra import AngularMomentum
 from amalgebra.errors import OperatorError, TensorOperatorError
-from amalgebra.numeric import to_matrix
+from amalgebra.matrices.explicit import to_matrix
 from amalgebra.tensors.products import spherical_components
 from amalgebra.tensors.spherical import SphericalTensor, tensor_matrix
 from amalgebra.tensors.vectors import VectorComponent, VectorOperator, vector_commutator

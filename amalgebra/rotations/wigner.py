@@ -34,7 +34,7 @@ Examples
 ========
 
 >>> from sympy import Symbol, cos, sin, sqrt, simplify
->>> from amalgebra.rotations import small_d, wigner_D, small_d_matrix
+>>> from amalgebra.rotations.wigner import small_d, wigner_D, small_d_matrix
 >>> beta = Symbol("beta", real=True)
 >>> small_d(1, 1, 0, beta)
 -sqrt(2)*sin(beta/2)*cos(beta/2)
@@ -59,15 +59,19 @@ References
 .. [3] D. A. Varshalovich et al., *Quantum Theory of Angular Momentum* (1988), sec. 4.3.
 """
 
+import math
 import numbers
 from fractions import Fraction
 from functools import lru_cache
 
-from sympy import Add, Expr, Float, I, Integer, Matrix, Mul, Rational, S, cos, exp, sin, sqrt
+from sympy import Add, Expr, Float, I, Integer, Matrix, Mul, Pow, Rational, S, cos, exp, sin, sqrt
+from sympy.core.add import _args_sortkey
 
-from .notation import NotationHooks
-from .errors import NotNumericError, ProjectionError
-from .qnumbers import doubled, doubled_projection, is_numeric, quantum_number
+from ..lambdify_kernels import wigner_D_float
+from ..notation import CodeHooks, NotationHooks
+from ..errors import AngleError, ConventionError, NotNumericError, ProjectionError
+from ..limits import check_limit
+from ..qnumbers import doubled, doubled_projection, is_numeric, quantum_number
 
 __all__ = [
     "small_d",
@@ -163,17 +167,24 @@ def clear_rotation_caches():
 # Validation at the boundary
 # ---------------------------------------------------------------------------
 
+_NOT_FINITE = (S.NaN, S.Infinity, S.NegativeInfinity, S.ComplexInfinity)
+
+
 def _angle(value, name):
-    """An Euler angle as a SymPy expression; numbers are converted exactly."""
+    """An Euler angle as a SymPy expression; numbers are converted exactly; nan and infinities refused."""
     if isinstance(value, bool):
         raise NotNumericError(f"{name}={value!r} must be a SymPy expression or a number, not a bool")
     if isinstance(value, Expr):
+        if value.has(*_NOT_FINITE):
+            raise AngleError(f"{name}={value} must be finite (no nan, oo or zoo in an angle)")
         return value
     if isinstance(value, numbers.Integral):
         return Integer(int(value))
     if isinstance(value, Fraction):
         return Rational(value.numerator, value.denominator)
     if isinstance(value, numbers.Real):
+        if not math.isfinite(float(value)):
+            raise AngleError(f"{name}={value!r} must be finite (a number, not nan or an infinity)")
         return Float(float(value))
     raise NotNumericError(
         f"{name}={value!r} must be a SymPy expression or a number, got {type(value).__name__}")
@@ -181,7 +192,20 @@ def _angle(value, name):
 
 def _element_args(j, mp, m):
     tj = doubled(j, "j", nonnegative=True)
+    check_limit("max_j", Fraction(tj, 2), "j", "d^j elements are sums of up to 2j + 1 terms")
     return tj, doubled_projection(tj, mp, "mp", "j"), doubled_projection(tj, m, "m", "j")
+
+
+def _matrix_j(j):
+    """Doubled ``j`` of a whole d or D matrix, refused before any work when the matrix would be too large."""
+    tj = doubled(j, "j", nonnegative=True)
+    check_limit("max_j", Fraction(tj, 2), "j", "the matrix is (2j + 1) x (2j + 1)")
+    check_limit("max_dense_entries", (tj + 1) ** 2, "(2j + 1)^2", f"entries of the d^j matrix, j={Fraction(tj, 2)}")
+    # Wigner's sum for d_{m'm} has min(j+m, j-m, j+m', j-m') + 1 terms; summed over the matrix this is
+    # (2j+1)^2 + sum_{k=1}^{j} (2j+1-2k)^2 (count the pairs whose minimum reaches k).
+    terms = (tj + 1) ** 2 + sum((tj + 1 - 2 * k) ** 2 for k in range(1, tj // 2 + 1))
+    check_limit("max_terms", terms, "terms", f"terms of the d^j matrix, j={Fraction(tj, 2)}")
+    return tj
 
 
 # ---------------------------------------------------------------------------
@@ -189,38 +213,96 @@ def _element_args(j, mp, m):
 # ---------------------------------------------------------------------------
 
 class _HalfAngleBuilder:
-    """Builds d-elements for one angle, sharing monomials and polynomials."""
+    """Builds d-elements for one angle, sharing monomials and polynomials.
+
+    The polynomials are assembled straight from the kernel's integers: each term is
+    ``Mul._from_args((coefficient, *monomial.args))`` and the sum ``Add._from_args`` of
+    the terms sorted as ``Add`` sorts them, so no SymPy arithmetic, coefficient
+    collection or assumption query runs per term (the monomials ``c^a s^(2j-a)`` are
+    distinct, so nothing needs collecting).  The result is the same expression that
+    ``sign * sqrt(B) * Add(*[Rational(num, den) * c**a * s**(2j-a)])`` builds
+    (``tests/test_rotations.py`` compares the two).
+    """
 
     def __init__(self, tj, beta):
         self.tj = tj
         c, s = cos(beta / 2), sin(beta / 2)
         self.monomials = [c ** a * s ** (tj - a) for a in range(tj + 1)]
+        self.factors = [m.args if isinstance(m, Mul) else (m,) for m in self.monomials]
+        # the bulk route needs monomials that are products of symbolic powers with no number in
+        # them (a numeric angle, or one like -x whose sine carries a sign, takes the generic route)
+        self.bulk = all(not f.is_number for m in self.factors for f in m)
         self.polys = {}
         self.roots = {}
 
-    def _poly(self, tmp, tm):
-        key = (tmp, tm)
+    def _term(self, coefficient, a):
+        if coefficient == 1:
+            return self.monomials[a]
+        return Mul._from_args((coefficient, *self.factors[a]))
+
+    def _poly(self, tmp, tm, negate):
+        key = (tmp, tm, negate)
         if key not in self.polys:
             inside, terms = _d_kernel(self.tj, tmp, tm)
-            mono = self.monomials
-            self.polys[key] = (inside, Add(*[Rational(num, den) * mono[a] for a, num, den in terms]))
+            sign = -1 if negate else 1
+            if not self.bulk:
+                poly = Add(*[Rational(sign * num, den) * self.monomials[a] for a, num, den in terms])
+                self.polys[key] = (inside, poly)
+                return self.polys[key]
+            args = [self._term(Rational(sign * num, den), a) for a, num, den in terms]
+            if len(args) == 1:
+                poly = args[0]
+            else:
+                args.sort(key=_args_sortkey)
+                poly = Add._from_args(args)
+            self.polys[key] = (inside, poly)
         return self.polys[key]
 
     def element(self, tmp, tm):
         if abs(tmp) > self.tj or abs(tm) > self.tj:
             return S.Zero
         rmp, rm, sign = _representative(tmp, tm)
-        inside, poly = self._poly(rmp, rm)
-        if inside not in self.roots:
-            self.roots[inside] = sqrt(Integer(inside))
-        return Mul(Integer(sign), self.roots[inside], poly)
+        inside, _ = _d_kernel(self.tj, rmp, rm)
+        if inside == 1:
+            # sign * poly distributes the sign over the terms: build the signed terms directly
+            return self._poly(rmp, rm, sign < 0)[1]
+        poly = self._poly(rmp, rm, False)[1]
+        if not self.bulk:
+            return Mul(Integer(sign), sqrt(Integer(inside)), poly)
+        key = (inside, sign, rmp, rm)
+        if key not in self.roots:
+            # inside is squarefree, so sqrt(inside) is the bare power; with a root and a sum
+            # present Mul neither distributes nor collects, it only sorts its factors
+            root = Pow(Integer(inside), S.Half, evaluate=False)
+            if isinstance(poly, Add):
+                factors = sorted((root, poly), key=_args_sortkey)
+                self.roots[key] = Mul._from_args((S.NegativeOne, *factors) if sign < 0 else tuple(factors))
+            else:  # a single term: Mul merges the factors, let it
+                self.roots[key] = Mul(Integer(sign), root, poly)
+        return self.roots[key]
 
 
 def _phase(tm, angle):
     return exp(-I * Rational(tm, 2) * angle)
 
 
-def small_d(j, mp, m, beta):
+def _full_angle(element, beta):
+    """A half-angle d-element of integer ``j`` as a polynomial in ``cos(beta)`` plus
+    ``sin(beta)`` times one (``c^2 = (1 + C)/2``, ``s^2 = (1 - C)/2``, ``c s = S/2``)."""
+    from sympy import Poly, expand
+
+    c, s = cos(beta / 2), sin(beta / 2)
+    C, Sb = cos(beta), sin(beta)
+    out = S.Zero
+    for (a, b), coeff in Poly(element, c, s).terms():
+        term = coeff * ((1 + C) / 2) ** (a // 2) * ((1 - C) / 2) ** (b // 2)
+        if a % 2:
+            term = term * Sb / 2
+        out += term
+    return expand(out)
+
+
+def small_d(j, mp, m, beta, form="half_angle"):
     r"""Wigner's small-d function ``d^j_{m' m}(beta)`` in half-angle form.
 
     Explanation
@@ -230,13 +312,15 @@ def small_d(j, mp, m, beta):
     convention ``R = exp(-i alpha Jz) exp(-i beta Jy) exp(-i gamma Jz)``,
     Condon-Shortley phase.  The result is ``sqrt(B)`` times a polynomial in
     ``cos(beta/2)``, ``sin(beta/2)`` with exact rational coefficients.
-    ``|m| > j`` or ``|m'| > j`` gives an exact zero.
+    ``|m| > j`` or ``|m'| > j`` gives an exact zero.  ``j`` above ``max_j`` of
+    :mod:`amalgebra.limits` (default 1000) raises :class:`~amalgebra.errors.LimitError`
+    before any work; a nan or infinite angle raises :class:`~amalgebra.errors.AngleError`.
 
     Examples
     ========
 
     >>> from sympy import Symbol, pi
-    >>> from amalgebra.rotations import small_d
+    >>> from amalgebra.rotations.wigner import small_d
     >>> b = Symbol("beta")
     >>> small_d(1, 1, 1, b)
     cos(beta/2)**2
@@ -250,12 +334,24 @@ def small_d(j, mp, m, beta):
     >>> small_d(3, 2, -1, b) == -small_d(3, -1, 2, b) != 0
     True
 
+    With ``form="cos_sin"`` (integer ``j``) the same function is a polynomial in
+    ``cos(beta)`` plus ``sin(beta)`` times one; ``d^2_{00} = P_2(cos beta)``
+    (Edmonds 1957, eq. 4.1.24):
+
+    >>> from sympy import cos, legendre, simplify
+    >>> small_d(2, 0, 0, b, form="cos_sin")
+    3*cos(beta)**2/2 - 1/2
+    >>> simplify(small_d(2, 0, 0, b, form="cos_sin") - legendre(2, cos(b)))
+    0
+
     Parameters
     ==========
 
     j : int, Rational or str like ``"3/2"``; numeric, ``j >= 0``
     mp, m : projections ``m'`` (row) and ``m`` (column), same kind as ``j``
     beta : SymPy expression or number (the middle Euler angle)
+    form : ``"half_angle"`` (default; ``cos(beta/2)``, ``sin(beta/2)``) or ``"cos_sin"``
+        (``cos(beta)``, ``sin(beta)``; integer ``j`` only, half-integer ``j`` needs half angles)
 
     See Also
     ========
@@ -270,7 +366,13 @@ def small_d(j, mp, m, beta):
        (the table the tests compare with).
     """
     tj, tmp, tm = _element_args(j, mp, m)
-    return _HalfAngleBuilder(tj, _angle(beta, "beta")).element(tmp, tm)
+    if form not in ("half_angle", "cos_sin"):
+        raise ConventionError(f"form={form!r} must be 'half_angle' or 'cos_sin'")
+    if form == "cos_sin" and tj % 2:
+        raise ConventionError(f"form='cos_sin' needs an integer j, got j={Rational(tj, 2)}")
+    beta = _angle(beta, "beta")
+    element = _HalfAngleBuilder(tj, beta).element(tmp, tm)
+    return _full_angle(element, beta) if form == "cos_sin" else element
 
 
 def wigner_D(j, mp, m, alpha, beta, gamma):
@@ -287,7 +389,7 @@ def wigner_D(j, mp, m, alpha, beta, gamma):
     ========
 
     >>> from sympy import symbols
-    >>> from amalgebra.rotations import wigner_D
+    >>> from amalgebra.rotations.wigner import wigner_D
     >>> a, b, c = symbols("alpha beta gamma")
     >>> wigner_D(1, 1, 0, a, b, c)
     -sqrt(2)*exp(-I*alpha)*sin(beta/2)*cos(beta/2)
@@ -296,7 +398,7 @@ def wigner_D(j, mp, m, alpha, beta, gamma):
 
     With ``alpha = gamma = 0`` it reduces to :func:`small_d`:
 
-    >>> from amalgebra.rotations import small_d
+    >>> from amalgebra.rotations.wigner import small_d
     >>> wigner_D(2, 1, -1, 0, b, 0) == small_d(2, 1, -1, b) != 0
     True
 
@@ -333,13 +435,15 @@ def small_d_matrix(j, beta):
     Elements as in :func:`small_d` (active z-y-z convention,
     ``d^j_{m'm}(beta) = <j m'|exp(-i beta Jy)|j m>``).  Each distinct
     polynomial is built once and reused through the symmetries
-    ``d_{m'm} = (-1)^(m-m') d_{mm'} = d_{-m,-m'}``.
+    ``d_{m'm} = (-1)^(m-m') d_{mm'} = d_{-m,-m'}``.  Refused before any work
+    (:class:`~amalgebra.errors.LimitError`, :mod:`amalgebra.limits`) above ``max_j``,
+    above ``max_dense_entries`` entries or ``max_terms`` terms of Wigner's sums in all.
 
     Examples
     ========
 
     >>> from sympy import Symbol, pi, eye
-    >>> from amalgebra.rotations import small_d_matrix
+    >>> from amalgebra.rotations.wigner import small_d_matrix
     >>> small_d_matrix("1/2", Symbol("beta"))
     Matrix([
     [cos(beta/2), -sin(beta/2)],
@@ -361,7 +465,7 @@ def small_d_matrix(j, beta):
 
     small_d, wigner_D_matrix
     """
-    tj = doubled(j, "j", nonnegative=True)
+    tj = _matrix_j(j)
     builder = _HalfAngleBuilder(tj, _angle(beta, "beta"))
     ms = range(tj, -tj - 1, -2)
     return Matrix(tj + 1, tj + 1, [builder.element(tmp, tm) for tmp in ms for tm in ms])
@@ -383,7 +487,7 @@ def wigner_D_matrix(j, alpha, beta, gamma):
     ========
 
     >>> from sympy import symbols, pi, simplify, zeros
-    >>> from amalgebra.rotations import wigner_D_matrix
+    >>> from amalgebra.rotations.wigner import wigner_D_matrix
     >>> a, b, c = symbols("alpha beta gamma", real=True)
     >>> wigner_D_matrix(0, a, b, c)
     Matrix([[1]])
@@ -406,9 +510,9 @@ def wigner_D_matrix(j, alpha, beta, gamma):
     ========
 
     wigner_D, small_d_matrix, inverse_euler_angles,
-    amalgebra.rotations_series.compose_rotations
+    amalgebra.rotations.series.compose_rotations
     """
-    tj = doubled(j, "j", nonnegative=True)
+    tj = _matrix_j(j)
     alpha, beta, gamma = _angle(alpha, "alpha"), _angle(beta, "beta"), _angle(gamma, "gamma")
     builder = _HalfAngleBuilder(tj, beta)
     ms = range(tj, -tj - 1, -2)
@@ -434,7 +538,7 @@ def inverse_euler_angles(alpha, beta, gamma):
     ========
 
     >>> from sympy import symbols, simplify, zeros
-    >>> from amalgebra.rotations import inverse_euler_angles, wigner_D_matrix
+    >>> from amalgebra.rotations.wigner import inverse_euler_angles, wigner_D_matrix
     >>> a, b, c = symbols("alpha beta gamma", real=True)
     >>> inverse_euler_angles(a, b, c)
     (-gamma, -beta, -alpha)
@@ -450,7 +554,7 @@ def inverse_euler_angles(alpha, beta, gamma):
     See Also
     ========
 
-    wigner_D_matrix, amalgebra.rotations_series.compose_euler_angles
+    wigner_D_matrix, amalgebra.rotations.series.compose_euler_angles
     """
     alpha, beta, gamma = _angle(alpha, "alpha"), _angle(beta, "beta"), _angle(gamma, "gamma")
     return (-gamma, -beta, -alpha)
@@ -460,7 +564,7 @@ def inverse_euler_angles(alpha, beta, gamma):
 # Unevaluated D-matrix element
 # ---------------------------------------------------------------------------
 
-class RotationElement(NotationHooks, Expr):
+class RotationElement(CodeHooks, NotationHooks, Expr):
     r"""An unevaluated Wigner D-matrix element ``D^j_{m' m}(alpha, beta, gamma)``.
 
     Explanation
@@ -479,7 +583,7 @@ class RotationElement(NotationHooks, Expr):
     ========
 
     >>> from sympy import symbols, latex, conjugate
-    >>> from amalgebra.rotations import RotationElement, wigner_D
+    >>> from amalgebra.rotations.wigner import RotationElement, wigner_D
     >>> a, b, c = symbols("alpha beta gamma", real=True)
     >>> D = RotationElement(1, 1, 0, a, b, c)
     >>> D
@@ -508,7 +612,7 @@ class RotationElement(NotationHooks, Expr):
     See Also
     ========
 
-    wigner_D, amalgebra.rotations_series.clebsch_gordan_series
+    wigner_D, amalgebra.rotations.series.clebsch_gordan_series
     """
 
     __slots__ = ()
@@ -565,3 +669,4 @@ class RotationElement(NotationHooks, Expr):
         return self._eval_conjugate()
 
     _notation_key = "rotation"
+    _float_kernel = staticmethod(wigner_D_float)  # what lambdify calls

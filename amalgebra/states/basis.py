@@ -1,0 +1,245 @@
+r"""Ordered bases of explicit matrices: kets with their quantum numbers, in the package's one order.
+
+Explanation
+===========
+
+Every explicit matrix of the package (:func:`amalgebra.matrices.explicit.to_matrix`,
+:func:`amalgebra.states.hamiltonian.hamiltonian_matrix`) is written in a
+:class:`Basis`.  The product basis of a space ``{label: j or [j values]}`` has
+**one order**:
+
+* one label, one j: ``m = j, j-1, ..., -j`` (row 0 is ``m = j``);
+* one label, a list of j values (a direct sum of multiplets): the j values in
+  the order given, ``m`` descending within each;
+* several labels: the Kronecker product over the labels in the package's
+  label order (:func:`amalgebra._validation.label_key`: alphabetical, with
+  ``S2`` before ``S10``), the first label outermost (slowest varying), as
+  ``numpy.kron(A_first, A_second)``.
+
+A coupled basis (:func:`~amalgebra.states.coupled.coupled_basis`) or a list of
+states given by the user keeps its own order.  :meth:`Basis.index` finds a
+ket, :meth:`Basis.select` picks states by quantum numbers (``M=0``, or the
+``j``/``m`` of a label), :meth:`Basis.quantum_numbers` reports them.
+
+Examples
+========
+
+>>> from amalgebra.states.basis import product_basis
+>>> b = product_basis({"S": "1/2", "L": [0, 1]})
+>>> len(b), b[0], b[1]
+(8, |0, 0>_L|1/2, 1/2>_S, |0, 0>_L|1/2, -1/2>_S)
+>>> b.select(M=0)                       # all states with M = m_L + m_S = 0: none (half-integer M)
+()
+>>> b.select(L=(1, 0))                  # j_L = 1, m_L = 0
+(4, 5)
+>>> b.index(b[5])
+5
+"""
+
+from itertools import product
+
+from sympy import S
+from sympy.printing.defaults import Printable
+
+from .. import notation
+from .._validation import label_key
+from ..errors import StateError
+from ..qnumbers import half_integer
+from .kets import Ket, ProductKet, _factor_map, components
+
+__all__ = ["Basis", "product_basis", "read_space"]
+
+_LISTS = (list, tuple)
+
+
+def read_space(j, name="j"):
+    """``{label: tuple of Rational j}`` in the package's label order, from ``{label: j or [j values]}``.
+
+    >>> read_space({"S": "1/2", "L": [0, 1]})
+    {'L': (0, 1), 'S': (1/2,)}
+    """
+    from sympy import Tuple
+
+    from .._validation import check_label
+
+    if not isinstance(j, dict) or not j:
+        raise StateError(f"{name}={j!r} must be a non-empty dict label -> j value or list of j values")
+    out = {}
+    for label in sorted(j, key=lambda lab: label_key(check_label(lab, f"{name} key", StateError))):
+        value = j[label]
+        where = f"{name}[{label!r}]"
+        if isinstance(value, _LISTS + (Tuple,)):
+            if len(value) == 0:
+                from ..errors import QuantumNumberError
+                raise QuantumNumberError(f"{where}={value!r} must list at least one j value")
+            js = tuple(half_integer(v, where, nonnegative=True) for v in value)
+            if len(set(js)) != len(js):
+                from ..errors import QuantumNumberError
+                raise QuantumNumberError(f"{where}={list(js)} must not repeat a j value: one multiplet "
+                                         f"per j (reduced elements are keyed by (j', j))")
+        else:
+            js = (half_integer(value, where, nonnegative=True),)
+        out[str(label)] = js
+    return out
+
+
+def _multiplets(js):
+    return [(jv, jv - i) for jv in js for i in range(int(2 * jv) + 1)]
+
+
+class Basis(Printable):
+    """An ordered basis: ``states`` (kets, product kets, coupled kets or combinations) and their labels.
+
+    Not a SymPy object (it holds a list); immutable.  ``len``, iteration and
+    indexing give the states.  ``str`` prints one state per line with its
+    index.
+
+    Examples
+    ========
+
+    >>> from amalgebra.states.basis import product_basis
+    >>> b = product_basis({"J": 1})
+    >>> print(b)
+    0: |1, 1>_J
+    1: |1, 0>_J
+    2: |1, -1>_J
+    >>> b.quantum_numbers(2)
+    {'M': -1, 'J': (1, -1)}
+
+    :meth:`index` inverts indexing:
+
+    >>> all(b.index(state) == i for i, state in enumerate(b))
+    True
+    """
+
+    __slots__ = ("labels", "states", "_index", "_values")
+
+    def __init__(self, states, labels, values=None):
+        self.states = tuple(states)
+        self.labels = tuple(labels)
+        self._values = None if values is None else tuple(values)
+        self._index = {s: i for i, s in enumerate(self.states)}
+
+    @property
+    def values(self):
+        """Per state, the tuple of ``(j, m)`` per label (product bases), else ``None``."""
+        return self._values
+
+    def __len__(self):
+        return len(self.states)
+
+    def __iter__(self):
+        return iter(self.states)
+
+    def __getitem__(self, i):
+        return self.states[i]
+
+    def __eq__(self, other):
+        return isinstance(other, Basis) and self.states == other.states and self.labels == other.labels
+
+    def __hash__(self):
+        return hash((self.states, self.labels))
+
+    def index(self, state):
+        """The position of ``state`` (a ket of this basis); StateError when it is not one.
+
+        >>> from amalgebra.states.kets import ket
+        >>> product_basis({"J": 1}).index(ket(1, -1))
+        2
+        """
+        i = self._index.get(state)
+        if i is None:
+            raise StateError(f"state={state} must be a state of this basis (labels {list(self.labels)})")
+        return i
+
+    def quantum_numbers(self, i):
+        """``{"M": total m, label: (j, m), ...}`` of state ``i``, plus ``"F"`` (total J) for a coupled ket.
+
+        Keys that the state does not have definitely (a combination of
+        different m) are left out.
+        """
+        state = self.states[i]
+        out = {}
+        if self._values is not None:
+            values = self._values[i]
+            out["M"] = sum((m for _, m in values), S.Zero)
+            out.update({label: pair for label, pair in zip(self.labels, values)})
+            return out
+        if hasattr(state, "J") and hasattr(state, "M") and hasattr(state, "intermediates"):
+            out["M"], out["F"] = state.M, state.J
+            return out
+        comps = components(state)
+        ms = {sum((m for _, m in _factor_map(b).values()), S.Zero) for b in comps}
+        if len(ms) == 1:
+            out["M"] = ms.pop()
+        return out
+
+    def select(self, **wanted):
+        """Indices of the states whose quantum numbers match ``wanted`` (a tuple, basis order).
+
+        Keys: ``M`` (total projection), ``F`` (total angular momentum of a
+        coupled ket), or a label: ``L=(j, m)`` or ``L=j`` (any m).
+
+        >>> product_basis({"I": "1/2", "J": "1/2"}).select(M=0)
+        (1, 2)
+        """
+        out = []
+        for i in range(len(self.states)):
+            qn = self.quantum_numbers(i)
+            ok = True
+            for key, value in wanted.items():
+                have = qn.get(key)
+                if have is None:
+                    ok = False
+                    break
+                if key in self.labels and not isinstance(value, tuple):
+                    ok = have[0] == S(value)
+                elif isinstance(value, tuple):
+                    ok = have == tuple(S(v) for v in value)
+                else:
+                    ok = have == S(value)
+                if not ok:
+                    break
+            if ok:
+                out.append(i)
+        return tuple(out)
+
+    def __str__(self):
+        return "\n".join(f"{i}: {s}" for i, s in enumerate(self.states))
+
+    def __repr__(self):
+        return f"Basis({len(self.states)} states, labels={list(self.labels)})"
+
+    def _sympystr(self, printer):
+        return repr(self)
+
+    def _latex(self, printer, exp=None):
+        return notation.basis_latex(printer, self, exp)
+
+
+def product_basis(j):
+    """The product :class:`Basis` of the space ``{label: j or [j values]}`` in the one order (module docstring).
+
+    Examples
+    ========
+
+    >>> [str(s) for s in product_basis({"J": [0, "1/2"]})]
+    ['|0, 0>_J', '|1/2, 1/2>_J', '|1/2, -1/2>_J']
+
+    The dimension is the product of the :math:`2j+1` (here :math:`4 \\times 3`), and
+    :math:`M = 5/2` is reached only by the first state:
+
+    >>> from sympy import Rational
+    >>> b = product_basis({"I": "3/2", "J": 1})
+    >>> len(b) == (2 * 3/2 + 1) * (2 * 1 + 1), b.select(M=Rational(5, 2))
+    (True, (0,))
+    """
+    spaces = read_space(j)
+    labels = list(spaces)
+    per_label = [_multiplets(spaces[label]) for label in labels]
+    values = list(product(*per_label))
+    states = []
+    for vals in values:
+        kets = [Ket._unchecked(jv, m, label) for label, (jv, m) in zip(labels, vals)]
+        states.append(kets[0] if len(kets) == 1 else ProductKet._unchecked(kets))
+    return Basis(states, labels, values)
