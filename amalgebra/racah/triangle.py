@@ -60,7 +60,7 @@ class TriangleDelta(NotationHooks, Expr):
     is_commutative = True
 
     def __new__(cls, a, b, c):
-        args = [_sympify(v) for v in (a, b, c)]   # strict: numbers and SymPy objects, never text
+        args = [_sympify(v) for v in (a, b, c)]   # safe: strict conversion of numbers and SymPy objects, never text
         if all(is_numeric(v) for v in args):
             return Integer(1 if triangle(*args) else 0)
         return Expr.__new__(cls, *sorted(args, key=default_sort_key))

@@ -66,17 +66,7 @@ def evaluate(expr, js):
             if node.label not in mats:
                 raise KeyError(node.label)
             return embed(node.label, node.component)
-        if node.is_Add:
-            return sum(walk(arg) for arg in node.args)
-        if node.is_Mul:
-            out = np.eye(total, dtype=complex)
-            for arg in node.args:
-                value = walk(arg)
-                out = out @ value if np.ndim(value) == 2 else out * value
-            return out
-        if node.is_Pow and not node.is_commutative:
-            return np.linalg.matrix_power(walk(node.base), int(node.exp))
-        return complex(node) * np.eye(total, dtype=complex)
+        return _fold(node, walk, total)
 
     return walk(expr)
 
@@ -211,16 +201,21 @@ def evaluate_on_space(expr, space, reduced=None, convention="edmonds"):
             if node.axis == "x":
                 return (sph[-1] - sph[1]) / sqrt(2)
             return 1j * (sph[1] + sph[-1]) / sqrt(2)
-        if node.is_Add:
-            return sum(walk(arg) for arg in node.args)
-        if node.is_Mul:
-            out = np.eye(n, dtype=complex)
-            for arg in node.args:
-                value = walk(arg)
-                out = out @ value if np.ndim(value) == 2 else out * value
-            return out
-        if node.is_Pow and not node.is_commutative:
-            return np.linalg.matrix_power(walk(node.base), int(node.exp))
-        return complex(node) * np.eye(n, dtype=complex)
+        return _fold(node, walk, n)
 
     return walk(expr)
+
+
+def _fold(node, walk, size):
+    """Sums, products and operator powers of the matrices ``walk`` gives, a scalar times the identity."""
+    if node.is_Add:
+        return sum(walk(arg) for arg in node.args)
+    if node.is_Mul:
+        out = np.eye(size, dtype=complex)
+        for arg in node.args:
+            value = walk(arg)
+            out = out @ value if np.ndim(value) == 2 else out * value
+        return out
+    if node.is_Pow and not node.is_commutative:
+        return np.linalg.matrix_power(walk(node.base), int(node.exp))
+    return complex(node) * np.eye(size, dtype=complex)
