@@ -61,6 +61,43 @@ class _SkipShims:
         return None
 
 
+class _ImportPackageModulesFirst:
+    """Import a package module by its dotted name before its doctests are collected.
+
+    Under ``--import-mode=importlib`` pytest imports ``amalgebra/states/basis.py`` by first importing the
+    parent package (whose ``__init__`` already imports ``basis``) and then executing the file a second
+    time under the same name, so ``amalgebra.states.Basis`` and ``amalgebra.states.basis.Basis`` became
+    two classes.  A module already in ``sys.modules`` is taken as it is, so importing it normally here
+    leaves one module object.  ``__main__`` is never imported (it runs the command line)."""
+
+    @staticmethod
+    def pytest_collect_file(file_path, parent):
+        if file_path.suffix != ".py" or file_path.name == "__main__.py":
+            return None
+        import importlib
+        import importlib.util
+        import pathlib
+
+        spec = importlib.util.find_spec("amalgebra")
+        if spec is None or not spec.origin:
+            return None
+        root = pathlib.Path(spec.origin).resolve().parent
+        try:
+            relative = file_path.resolve().relative_to(root)
+        except ValueError:
+            return None
+        parts = ("amalgebra",) + relative.with_suffix("").parts
+        if parts[-1] == "__init__":
+            parts = parts[:-1]
+        try:
+            importlib.import_module(".".join(parts))
+        except Exception:      # noqa: BLE001 - pytest reports the import error of the module itself
+            pass
+        return None
+
+
 def pytest_configure(config):
     if not config.pluginmanager.has_plugin("amalgebra-skip-shims"):
         config.pluginmanager.register(_SkipShims(), "amalgebra-skip-shims")
+    if not config.pluginmanager.has_plugin("amalgebra-import-once"):
+        config.pluginmanager.register(_ImportPackageModulesFirst(), "amalgebra-import-once")

@@ -13,7 +13,11 @@ Environment switches (read at build time):
 * ``AMALGEBRA_PURE_PYTHON=1`` skips the extension (a pure wheel);
 * ``AMALGEBRA_REQUIRE_COMPILED=1`` makes a failed extension build an error
   instead of a fallback (CI and wheel builders use it, so a wheel never ships
-  without the kernel by accident).
+  without the kernel by accident);
+* ``AMALGEBRA_GMP_PREFIX=DIR`` adds ``DIR/include`` and ``DIR/lib`` to the
+  compiler's search paths, for a GMP outside them (the wheel builds of
+  ``pyproject.toml``'s ``[tool.cibuildwheel]``: Homebrew's on macOS, vcpkg's on
+  Windows).
 """
 
 import os
@@ -58,10 +62,22 @@ class OptionalBuildExt(build_ext):
             f"{banner}\n\n")
 
 
+def _gmp_location():
+    """Search paths and library name of GMP: the compiler's defaults, or ``AMALGEBRA_GMP_PREFIX``."""
+    prefix = os.environ.get("AMALGEBRA_GMP_PREFIX", "").strip()
+    if not prefix:
+        return {"libraries": ["gmp"]}
+    lib = Path(prefix) / "lib"
+    # MSVC links gmp.lib (vcpkg's name); a MinGW-style build names it libgmp.lib or libgmp.dll.a
+    name = "libgmp" if sys.platform == "win32" and not (lib / "gmp.lib").exists() \
+        and any((lib / f).exists() for f in ("libgmp.lib", "libgmp.dll.a")) else "gmp"
+    return {"include_dirs": [str(Path(prefix) / "include")], "library_dirs": [str(lib)], "libraries": [name]}
+
+
 extensions = []
 if not _flag("AMALGEBRA_PURE_PYTHON"):
     extensions.append(Extension("amalgebra.coupling._racah6j", ["amalgebra/coupling/_racah6j.c"],
-                                libraries=["gmp"]))
+                                **_gmp_location()))
 
 
 

@@ -14,8 +14,9 @@ between :math:`|j m\rangle` and :math:`|j, m+d\rangle` (Condon-Shortley phase,
 
 :func:`ladder_radicand` gives the product under the root as a ``Fraction``
 (0 when :math:`m + d` leaves :math:`[-j, j]`), :func:`condon_shortley` the
-exact SymPy value (also for symbolic :math:`j, m`) and :func:`ladder_float`
-the float.  :func:`sqrt_of_product` takes the square root of a product of
+exact SymPy value (also for symbolic :math:`j, m`), :func:`ladder_float`
+the float and :func:`ladder_float_array` the floats for a numpy array of
+:math:`m` (the vectorised read-off of :mod:`amalgebra.matrices.explicit`).  :func:`sqrt_of_product` takes the square root of a product of
 small nonnegative integers by factorising each factor separately, so the
 square part is pulled out without factorising the product.
 
@@ -43,7 +44,8 @@ from sympy import Expr, Integer, Mul, Pow, S, sqrt
 
 from .errors import OperatorError
 
-__all__ = ["sqrt_of_product", "condon_shortley", "ladder_radicand", "ladder_float", "clear_caches"]
+__all__ = ["sqrt_of_product", "condon_shortley", "ladder_radicand", "ladder_float", "ladder_float_array",
+           "clear_caches"]
 
 
 @lru_cache(maxsize=8192)
@@ -129,6 +131,27 @@ def ladder_float(j, m, d):
     True
     """
     return float(ladder_radicand(j, m, d)) ** 0.5
+
+
+def ladder_float_array(j, m, d):
+    """:math:`N_d(j, m)` as floats for a float ``j`` and a numpy array ``m`` (0 where ``m + d`` leaves the range).
+
+    The same product as :func:`ladder_radicand`, in numpy (imported here, on first use only).
+
+    >>> import numpy as np
+    >>> ladder_float_array(1.0, np.array([1.0, 0.0, -1.0]), 1).tolist() == [0.0, 2 ** 0.5, 2 ** 0.5]
+    True
+    """
+    import numpy as np
+
+    radicand = np.ones(np.shape(m))
+    for k in range(abs(d)):
+        if d > 0:
+            radicand = radicand * (j - m - k) * (j + m + k + 1)
+        else:
+            radicand = radicand * (j + m - k) * (j - m + k + 1)
+    # a factor is exactly 0 where m + d leaves [-j, j]; later ones may be negative, the product stays 0
+    return np.sqrt(np.maximum(radicand, 0.0))
 
 
 def _pair(j, m):

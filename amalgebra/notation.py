@@ -13,27 +13,53 @@ The functions are grouped by object kind and named ``<kind>_str``,
 ``<kind>_pretty`` and ``<kind>_latex``; each takes ``(printer, obj)``.
 Trailing digits of a label become a subscript in LaTeX (``S1`` prints
 ``{S_{1}}``, ``S1.z`` prints ``S_{1z}``), other multi-letter labels are set
-upright (``\mathrm{Sb}``), one-letter labels italic.  The notation table (str / LaTeX):
+upright (``\mathrm{Sb}``), one-letter labels italic.
 
-========================  =================================  ========================================================
-object                    str                                LaTeX
-========================  =================================  ========================================================
-``AngularMomentum("J")``  ``AngularMomentum('J')``           ``\mathbf{J}``
-``J.z``, ``J.plus``       ``J.z``, ``J.plus``                ``J_{z}``, ``J_{+}``
-``J.squared``             ``J.squared``                      ``J^{2}`` (``\left(J^{2}\right)^{3}`` under a power)
-``Ket(1, 0, "S")``        ``|1, 0>_S``                       ``{\left|1, 0\right\rangle}_{S}``
-``Bra(1, 0, "S")``        ``<1, 0|_S``                       ``{\left\langle 1, 0\right|}_{S}``
-coupled ket               ``|(1_A 1_B)2, 0>``                ``\left|\left(1_{A} 1_{B}\right) 2, 0\right\rangle``
-``a.create``              ``a.create``                       ``{a^{\dagger}}``
-Fock ket                  ``|2, 1>_(a,b)``                   ``{\left|2, 1\right\rangle}_{a,b}``
-D-matrix element          ``D^{1}_{1,0}(a, b, c)``           ``D^{1}_{1,0}\left(a,b,c\right)``
-reduced matrix element    ``<1||T^(1)||1>``                  ``\langle 1 \| T^{(1)} \| 1 \rangle``
-tensor component          ``T^(1)_(0)``                      ``{T^{(1)}_{0}}``
-CG symbol                 ``<1, 0; 1, 0|2, 0>``              ``\left\langle 1, 0; 1, 0 \middle| 2, 0 \right\rangle``
-3j symbol                 ``3j(1, 1, 2; 0, 0, 0)``           ``\begin{pmatrix} 1 & 1 & 2 \\ 0 & 0 & 0 \end{pmatrix}``
-6j symbol                 ``6j{1, 1, 1; 1, 1, 1}``           ``\begin{Bmatrix}`` 2 x 3 ``\end{Bmatrix}``
-9j symbol                 ``9j{a, b, c; d, e, f; g, h, i}``  ``\begin{Bmatrix}`` 3 x 3 ``\end{Bmatrix}``
-========================  =================================  ========================================================
+**str is complete, pretty and LaTeX are for reading.**  The str of every object says
+everything the object holds, so that :func:`amalgebra.parsing.parse` reads it back to the
+same object (``parse(str(x)) == x``; tested for every class in ``tests/test_parsing.py``).
+So str names what the typeset forms leave to the context: the angular momentum a vector
+or tensor is under (``r[L].z``, ``T^(2)[J]_(1)``, ``[T^(2)[J] x U^(1)[S]]^(2)``; ``r.z``
+alone is the component of ``AngularMomentum("r")``) with its settings when they are not the
+defaults (``C^(1)[L, racah]``, ``p[L, general].x`` for non-Hermitian components), and the name of every momentum of a
+tree ket (``|(1_a 1/2_b)3/2_J, 1/2>``, where the coupled ket ``|(1_a 1/2_b)3/2, 1/2>`` has no
+name for its total).  Unicode pretty and LaTeX print a vector component ``r_z``, a tensor
+component ``T^{(2)}_{1}`` and a coupled tensor ``[T^{(2)} \times U^{(1)}]^{(2)}`` without
+the label, as papers do: the label is the algebraic setting (which momentum the operator
+is a vector under), fixed for a paper, not part of the symbol; an expression in which one
+name stands for two such settings (a vector ``r`` under ``L`` and under ``J``, or beside an
+angular momentum ``r``) is told apart in str only.  Tree kets keep the names of their
+momenta in pretty and LaTeX too (``\frac{3}{2}_{J}``), since two trees with the same
+leaves differ only by them.  The printed forms of the first notation that said too little
+are refused by the reader with a :class:`~amalgebra.errors.ParseError` (``T^(2)_(1)``,
+``[T^(2) x U^(1)]^(2)``, a ket coupled in a non-chain tree without names), except where the
+old text is a complete form of another object (``r.z``, ``|(1_a 1/2_b)3/2, 1/2>``).
+
+The notation table (str / LaTeX)::
+
+    ========================  =================================  ==========================================================
+    object                    str                                LaTeX
+    ========================  =================================  ==========================================================
+    ``AngularMomentum("J")``  ``AngularMomentum('J')``           ``\mathbf{J}``
+    ``J.z``, ``J.plus``       ``J.z``, ``J.plus``                ``J_{z}``, ``J_{+}``
+    ``J.squared``             ``J.squared``                      ``J^{2}`` (``\left(J^{2}\right)^{3}`` under a power)
+    ``Ket(1, 0, "S")``        ``|1, 0>_S``                       ``{\left|1, 0\right\rangle}_{S}``
+    ``Bra(1, 0, "S")``        ``<1, 0|_S``                       ``{\left\langle 1, 0\right|}_{S}``
+    coupled ket               ``|(1_A 1_B)2, 0>``                ``\left|\left(1_{A} 1_{B}\right) 2, 0\right\rangle``
+    ``a.create``              ``a.create``                       ``{a^{\dagger}}``
+    Fock ket                  ``|2, 1>_(a,b)``                   ``{\left|2, 1\right\rangle}_{a,b}``
+    D-matrix element          ``D^{1}_{1,0}(a, b, c)``           ``D^{1}_{1,0}\left(a,b,c\right)``
+    reduced matrix element    ``<1||T^(1)||1>``                  ``\langle 1 \| T^{(1)} \| 1 \rangle``
+    spherical tensor          ``T^(1)[J]``                       ``T^{(1)}``
+    tensor component          ``T^(1)[J]_(0)``                   ``{T^{(1)}_{0}}``
+    vector component          ``r[L].z``                         ``r_{z}``
+    coupled tensor operator   ``[T^(1)[a] x J]^(1)``             ``\left[T^{(1)} \times \mathbf{J}\right]^{(1)}``
+    tree ket                  ``|(1_a 1_b)2_J, 0>``              ``\left|\left(1_{a}\, 1_{b}\right) 2_{J}, 0\right\rangle``
+    CG symbol                 ``<1, 0; 1, 0|2, 0>``              ``\left\langle 1, 0; 1, 0 \middle| 2, 0 \right\rangle``
+    3j symbol                 ``3j(1, 1, 2; 0, 0, 0)``           ``\begin{pmatrix} 1 & 1 & 2 \\ 0 & 0 & 0 \end{pmatrix}``
+    6j symbol                 ``6j{1, 1, 1; 1, 1, 1}``           ``\begin{Bmatrix}`` 2 x 3 ``\end{Bmatrix}``
+    9j symbol                 ``9j{a, b, c; d, e, f; g, h, i}``  ``\begin{Bmatrix}`` 3 x 3 ``\end{Bmatrix}``
+    ========================  =================================  ==========================================================
 
 Examples
 ========
@@ -52,6 +78,14 @@ notation and algebra together):
 >>> from sympy import adjoint
 >>> str(adjoint(k)) == "<1, 0|_S1"
 True
+
+str names the angular momentum a vector is under; LaTeX leaves it to the context:
+
+>>> from amalgebra.parsing import parse
+>>> from amalgebra.tensors.vectors import VectorOperator
+>>> r = VectorOperator("r", "L")
+>>> str(r.z), latex(r.z), parse(str(r.z)) == r.z
+('r[L].z', 'r_{z}', True)
 
 See Also
 ========
@@ -415,8 +449,21 @@ def reduced_pretty(printer, obj):
 
 # -- tensor and vector operators ---------------------------------------------------------------
 
+def _settings_text(obj):
+    """``[J]``, ``[L, racah]``, ``[J, unit, general]``: the label, then the settings that are not the
+    defaults (the kind of a tensor when not ``abstract``; ``general`` for non-Hermitian components)."""
+    words = [obj.label]
+    kind = getattr(obj, "kind", None)  # a tensor's kind (a vector has SymPy's own .kind, not a str)
+    if isinstance(kind, str) and kind != "abstract":
+        words.append(kind)
+    if not obj.hermitian:
+        words.append("general")
+    return "[" + ", ".join(words) + "]"
+
+
 def spherical_tensor_str(printer, obj):
-    return f"{obj.name}^({printer._print(obj.rank)})[{obj.label}]"
+    """``T^(2)[J]``; a Racah or unit tensor, or non-Hermitian components, say so: ``C^(1)[L, racah]``."""
+    return f"{obj.name}^({printer._print(obj.rank)}){_settings_text(obj)}"
 
 
 def spherical_tensor_latex(printer, obj, exp=None):
@@ -429,8 +476,13 @@ def spherical_tensor_pretty(printer, obj):
 
 
 def tensor_component_str(printer, obj):
+    """``T^(2)[J]_(1)``: the family's text (with the label it is a tensor under) and ``q``.
+
+    The label is written because the component's algebra depends on it; pretty
+    and LaTeX leave it out (``T^{(2)}_{1}``), as papers do.
+    """
     tensor, q = obj.args
-    return f"{tensor.name}^({printer._print(tensor.rank)})_({printer._print(q)})"
+    return f"{printer._print(tensor)}_({printer._print(q)})"
 
 
 def tensor_component_latex(printer, obj, exp=None):
@@ -447,7 +499,9 @@ def tensor_component_pretty(printer, obj):
 
 
 def vector_operator_str(printer, obj):
-    return f"VectorOperator({obj.name!r}, {obj.label!r})"
+    """``VectorOperator('r', 'L')``; ``VectorOperator('r', 'L', 'general')`` for non-Hermitian components."""
+    general = "" if obj.hermitian else ", 'general'"
+    return f"VectorOperator({obj.name!r}, {obj.label!r}{general})"
 
 
 def vector_operator_latex(printer, obj, exp=None):
@@ -459,7 +513,13 @@ def vector_operator_pretty(printer, obj):
 
 
 def vector_component_str(printer, obj):
-    return f"{obj.vector.name}.{obj.axis}"
+    """``r[L].z``: the vector's name, the label it is a vector under, the axis.
+
+    ``r.z`` alone would be the component of ``AngularMomentum("r")`` (the form
+    ``J.z``), so str names the label; pretty and LaTeX keep ``r_z`` (see the
+    module docstring).
+    """
+    return f"{obj.vector.name}{_settings_text(obj.vector)}.{obj.axis}"
 
 
 def vector_component_latex(printer, obj, exp=None):
@@ -663,16 +723,30 @@ class _PlainPrinter:
         return str(obj)
 
 
-def _tensor_head(printer, op):
-    """The family name of a tensor (``T^(1)``, ``I``) as str."""
-    if hasattr(op, "rank") and hasattr(op, "name") and not hasattr(op, "first"):
-        return f"{op.name}^({printer._print(op.rank)})"
-    if hasattr(op, "first"):
-        return coupled_tensor_operator_str(printer, op)
-    return op.label
+def _tensor_part_str(printer, op):
+    """A part of ``[A x B]^(K)`` in str: an angular momentum by its label (``J``), any other
+    part by its own complete str (``T^(2)[J]``, ``VectorOperator('r', 'L')``, ``[...]^(K)``)."""
+    if type(op).__name__ == "AngularMomentum":
+        return op.label
+    return printer._print(op)
 
 
 def coupled_tensor_operator_str(printer, obj):
+    """``[T^(2)[J] x U^(1)[S]]^(2)``: each part says its label, so the text reads back."""
+    return (f"[{_tensor_part_str(printer, obj.first)} x {_tensor_part_str(printer, obj.second)}]"
+            f"^({printer._print(obj.rank)})")
+
+
+def _tensor_head(printer, op):
+    """The short head of a part for pretty printing (``T^(1)``, ``r``, ``J``): no labels."""
+    if hasattr(op, "first"):
+        return _coupled_tensor_short(printer, op)
+    if hasattr(op, "rank") and hasattr(op, "name"):
+        return f"{op.name}^({printer._print(op.rank)})"
+    return op.name if hasattr(op, "name") else op.label
+
+
+def _coupled_tensor_short(printer, obj):
     return (f"[{_tensor_head(printer, obj.first)} x {_tensor_head(printer, obj.second)}]"
             f"^({printer._print(obj.rank)})")
 
@@ -682,7 +756,8 @@ def _tensor_head_latex(printer, op):
         return coupled_tensor_operator_latex(printer, op)
     if hasattr(op, "rank") and hasattr(op, "name"):
         return r"%s^{(%s)}" % (label_latex(op.name), printer._print(op.rank))
-    return r"\mathbf{%s}" % name_latex(op.label)
+    # a vector operator by its name, an angular momentum by its label
+    return r"\mathbf{%s}" % name_latex(op.name if hasattr(op, "name") else op.label)
 
 
 def coupled_tensor_operator_latex(printer, obj, exp=None):
@@ -693,22 +768,28 @@ def coupled_tensor_operator_latex(printer, obj, exp=None):
 
 
 def coupled_tensor_operator_pretty(printer, obj):
-    text = coupled_tensor_operator_str(printer, obj)
+    text = _coupled_tensor_short(printer, obj)
     return prettyForm(text.replace(" x ", " \N{MULTIPLICATION SIGN} ") if _unicode(printer) else text)
 
 
 def _tree_state_text(obj, leaf, join, number):
+    """Every momentum of the tree as ``leaf(value, name)``, the leaves' and the nodes' alike."""
     values = obj.tree.values
 
     def walk(node):
         if isinstance(node, str):
             return leaf(number(values[node]), node)
-        return join(walk(node[0]), walk(node[1]), number(values[node[2]]), node)
+        return join(walk(node[0]), walk(node[1]), leaf(number(values[node[2]]), node[2]), node)
 
     return walk(obj.tree.structure)
 
 
 def tree_state_str(printer, obj):
+    """``|(1_a 1/2_b)3/2_J, 1/2>``: every momentum with its name, the intermediate and total ones too.
+
+    The names of the nodes tell a tree ket from the coupled ket ``|(1_a 1/2_b)3/2, 1/2>``
+    (whose intermediate momenta have no names) and from a tree ket of another tree.
+    """
     def join(left, right, value, node):
         sep = ", " if not isinstance(node[0], str) or not isinstance(node[1], str) else " "
         return f"({left}{sep}{right}){value}"

@@ -45,19 +45,27 @@ noncommutative order and SymPy's automatic evaluation are reproduced faithfully.
   and ``KroneckerDelta``) and to the constructors of :data:`CONSTRUCTORS`, imported
   lazily on first use.
 * The library's printed forms (the ``str`` of its objects, see :mod:`amalgebra.notation`)
-  are atoms of the grammar, so ``parse(str(x)) == x`` wherever that text says everything
-  the object holds:
+  are atoms of the grammar, and each says everything its object holds, so
+  ``parse(str(x)) == x``:
 
   - ``J.x``, ``J.plus``, ``J.squared``: components of ``AngularMomentum("J")``;
     ``a.create``, ``a.annihilate``, ``a.number``: the operators of ``BosonMode("a")``;
   - ``AngularMomentum('J')``, ``BosonMode('a')``, ``VectorOperator('r', 'L')``: the objects;
-  - ``r[L].z``: a component of ``VectorOperator("r", "L")`` (printed ``r.z``, which does not
-    say the label and reads as a component of ``AngularMomentum("r")``);
+  - ``r[L].z``: a component of ``VectorOperator("r", "L")`` (``r.z`` is a component of
+    ``AngularMomentum("r")``);
   - ``T^(2)[J]`` and ``T^(2)[J]_(1)``: ``SphericalTensor("T", 2, label="J")`` and a component
-    (printed ``T^(2)_(1)``, refused without the label);
+    (the former printed form ``T^(2)_(1)`` is refused: it does not say the label);
+  - settings that are not the defaults follow the label: the kind of a tensor
+    (``C^(1)[L, racah]``, ``u^(2)[J, unit]``) and ``general`` for non-Hermitian components
+    (``T^(1)[J, general]``, ``p[L, general].x``, ``VectorOperator('p', 'L', 'general')``);
   - ``|j, m>_J``, ``<j, m|_J``: ket and bra of label ``J``; ``|1, 0>_L|1/2, 1/2>_S``: a
     product ket (bras likewise); ``|(1_L 1/2_S)3/2, 1/2>``: a coupled ket
     (``|((1_L 1/2_S)3/2 1_I)5/2, 1/2>`` for three momenta); ``|2, 1>_(a,b)``: a Fock ket;
+  - ``|(1_a 1/2_b)3/2_J, 1/2>``, ``|((1_a 1_b)2_j, (1_c 1_d)2_k)0_J, 0>``: the ket of a coupling
+    tree (:class:`~amalgebra.states.tree_kets.TreeKet`; bras likewise): every momentum, the
+    intermediate and total ones too, with its name, which is what tells it from a coupled
+    ket.  A ket whose inner momenta are only partly named, or a non-chain tree or a comma
+    without names (the former printed form of tree kets), is refused;
   - ``<jp||T^(2)||j>``, ``<1||T^(2)||1>_cg``: reduced matrix elements (Edmonds
     normalisation, or the convention named after ``_``);
   - ``D^{j}_{m',m}(alpha, beta, gamma)``: a Wigner D element;
@@ -66,10 +74,11 @@ noncommutative order and SymPy's automatic evaluation are reproduced faithfully.
     (:class:`~amalgebra.coupling.symbols.CouplingBracket`, ``Coupling3j``, ``Coupling6j``,
     ``Coupling9j``);
   - ``((l s) j, I) F [l=2, s=1/2]``: a coupling tree with its given values;
-    ``[T^(2)[J] x U^(1)[S]]^(2)``: a coupled tensor operator (printed without the labels);
-  - ``TensorComponents(2, (a, b, ...))``, ``TriangleDelta(a, b, c)``, ``TreeKet(tree, M)``,
-    ``TreeBra(tree, M)``: calls (a tree ket prints like a coupled ket, without the names of
-    its intermediate momenta, so :func:`to_text` writes the call).
+    ``[T^(2)[J] x U^(1)[S]]^(2)``, ``[I x J]^(0)``: a coupled tensor operator (an angular
+    momentum part by its bare label; the former ``[T^(2) x U^(1)]^(2)`` is refused);
+  - ``TensorComponents(2, (a, b, ...))``, ``TriangleDelta(a, b, c)``: calls; ``TreeKet(tree, M)``
+    and ``TreeBra(tree, M)`` (written by :func:`to_text` before the tree ket had a complete
+    printed form) are still read.
 
   A momentum inside a coupled ket is a number (``3/2``; a name ``j`` or a parenthesised
   expression ``(2*j)`` is read too) joined to its label by ``_``; labels are ASCII
@@ -282,8 +291,10 @@ class Constructor:
     name : the name used in text.
     module : dotted module path, imported lazily.
     factory : attribute of that module to call.
-    kinds : tuple of ``"label"`` / ``"expr"`` / ``"tuple"``, one per argument.
+    kinds : tuple of ``"label"`` / ``"expr"`` / ``"tuple"`` / ``"setting"``, one per argument
+        (``"setting"``: ``'hermitian'`` or ``'general'``, passed as ``True`` / ``False``).
     attribute : optional attribute of the built object (``"z"`` for ``.z``).
+    required : how many leading arguments must be given (default: all).
     """
 
     name: str
@@ -291,6 +302,7 @@ class Constructor:
     factory: str
     kinds: tuple = field(default=("label",))
     attribute: str | None = None
+    required: int | None = None
 
     def build(self, args):
         obj = getattr(importlib.import_module(self.module), self.factory)(*args)
@@ -318,7 +330,8 @@ CONSTRUCTORS = {
         # the calls the library itself prints (str of these objects)
         Constructor("AngularMomentum", "amalgebra.algebra", "AngularMomentum", ("label",)),
         Constructor("BosonMode", "amalgebra.bosons", "BosonMode", ("label",)),
-        Constructor("VectorOperator", "amalgebra.tensors", "VectorOperator", ("label", "label")),
+        Constructor("VectorOperator", "amalgebra.tensors", "VectorOperator", ("label", "label", "setting"),
+                    required=2),
         Constructor("TensorComponents", "amalgebra.tensors.products", "TensorComponents",
                     ("expr", "tuple")),
         Constructor("TriangleDelta", "amalgebra.racah.triangle", "TriangleDelta",
@@ -393,8 +406,8 @@ _GRAMMAR = r"""
     | atom POW signed   -> pow
     | headed
     | headed POW signed -> pow
-?headed: atom POW "(" sum ")" "[" NAME "]" -> tensor
-    | atom POW "(" sum ")" "[" NAME "]" SUBPAREN sum ")" -> tensor_component
+?headed: atom POW "(" sum ")" "[" NAME ("," NAME)* "]" -> tensor
+    | atom POW "(" sum ")" "[" NAME ("," NAME)* "]" SUBPAREN sum ")" -> tensor_component
     | atom POW "(" sum ")" SUBPAREN sum ")" -> unlabelled_component
     | atom POW "{" sum "}" SUBBRACE sum "," sum "}" "(" sum "," sum "," sum ")" -> rotation
 ?atom: INT              -> integer
@@ -402,7 +415,7 @@ _GRAMMAR = r"""
     | NAME              -> name
     | NAME "(" arg ("," arg)* ")" -> call
     | NAME "." NAME     -> component
-    | NAME "[" NAME "]" "." NAME -> vector_component
+    | NAME "[" NAME ("," NAME)* "]" "." NAME -> vector_component
     | "(" sum ")"
     | ket+              -> kets
     | bra+              -> bras
@@ -411,8 +424,8 @@ _GRAMMAR = r"""
     | THREEJ sum "," sum "," sum ";" sum "," sum "," sum ")" -> threej
     | SIXJ sum "," sum "," sum ";" sum "," sum "," sum "}" -> sixj
     | NINEJ sum "," sum "," sum ";" sum "," sum "," sum ";" sum "," sum "," sum "}" -> ninej
-    | "|" "(" inner ")" sum "," sum ">" -> coupled_ket
-    | "<" "(" inner ")" sum "," sum "|" -> coupled_bra
+    | "|" "(" node COMMA? node ")" value "," sum ">" -> coupled_ket
+    | "<" "(" node COMMA? node ")" value "," sum "|" -> coupled_bra
     | "|" sum ("," sum)* FOCKKET NAME ("," NAME)* ")" -> fock_ket
     | "<" sum ("," sum)* FOCKBRA NAME ("," NAME)* ")" -> fock_bra
     | TREE ("[" assignment ("," assignment)* "]")? -> tree
@@ -420,10 +433,13 @@ _GRAMMAR = r"""
 assignment: NAME "=" sum
 ket: "|" sum "," sum KETEND
 bra: "<" sum "," sum BRAEND
-inner: part part -> inner_pair
-    | "(" inner ")" sum part -> inner_chain
+?node: part
+    | "(" node COMMA? node ")" value -> node
+value: part -> named_value
+    | sum -> unnamed_value
 part: LABELLED
     | "(" sum ")" LABELSUFFIX
+COMMA: ","
 ?arg: sum
     | QLABEL -> qlabel
     | "(" sum ("," sum)+ ")" -> tuple
@@ -592,11 +608,18 @@ def _transformer(limits, names):
                 return bounded(functions[head](*args))
             if head in CONSTRUCTORS:
                 spec = CONSTRUCTORS[head]
-                if len(args) != len(spec.kinds):
-                    raise ParseError(f"{head} takes {len(spec.kinds)} argument(s), "
-                                     f"got {len(args)}")
+                least = len(spec.kinds) if spec.required is None else spec.required
+                if not least <= len(args) <= len(spec.kinds):
+                    counts = f"{least} to {len(spec.kinds)}" if least < len(spec.kinds) else f"{least}"
+                    raise ParseError(f"{head} takes {counts} argument(s), got {len(args)}")
                 built = []
-                for kind, arg in zip(spec.kinds, args, strict=True):
+                for kind, arg in zip(spec.kinds, args):
+                    if kind == "setting":
+                        word = arg.name if isinstance(arg, (_Label, Symbol)) else None
+                        if word not in ("hermitian", "general"):
+                            raise ParseError(f"argument {_piece(arg)} of {head} must be 'hermitian' or 'general'")
+                        built.append(word == "hermitian")
+                        continue
                     if kind == "label":
                         if isinstance(arg, _Label):
                             built.append(arg.name)
@@ -637,23 +660,25 @@ def _transformer(limits, names):
             return getattr(getattr(importlib.import_module(module), factory)(label), part)
 
         def vector_component(self, c):
-            name, label, axis = (str(t) for t in c)
+            name, label, *settings, axis = (str(t) for t in c)
             if axis not in ("x", "y", "z"):
                 raise ParseError(f"axis={axis!r} of a vector operator must be x, y or z")
-            return getattr(_printed_class("vector")(name, label), axis)
+            _kind, hermitian = _settings(settings, kinds=())
+            return getattr(_printed_class("vector")(name, label, hermitian), axis)
 
-        def _tensor(self, head, rank, label):
+        def _tensor(self, head, rank, label, settings):
             if not isinstance(head, Symbol):
                 raise ParseError("a spherical tensor must be written name^(k)[label]")
-            return _printed_class("tensor")(head.name, rank, label=label)
+            kind, hermitian = _settings([str(t) for t in settings], kinds=_TENSOR_KINDS)
+            return _printed_class("tensor")(head.name, rank, str(label), kind, hermitian)
 
         def tensor(self, c):
-            head, _pow, rank, label = c
-            return self._tensor(head, rank, str(label))
+            head, _pow, rank, label, *settings = c
+            return self._tensor(head, rank, label, settings)
 
         def tensor_component(self, c):
-            head, _pow, rank, label, _sub, q = c
-            return self._tensor(head, rank, str(label))[q]
+            head, _pow, rank, label, *settings, _sub, q = c
+            return self._tensor(head, rank, label, settings)[q]
 
         def unlabelled_component(self, c):
             raise ParseError("a tensor component must name the label of its tensor: "
@@ -682,26 +707,20 @@ def _transformer(limits, names):
                 return _labelled(c[0], limits)
             return c[0], str(c[1])[1:]
 
-        def inner_pair(self, c):
-            return [c[0], c[1]], []
+        def node(self, c):
+            return _Node(c)
 
-        def inner_chain(self, c):
-            (parts, intermediates), value, last = c
-            return parts + [last], intermediates + [value]
+        def named_value(self, c):
+            return c[0]
 
-        def _coupled(self, rule, c):
-            from sympy import Tuple
-            from sympy.core.symbol import Str
-
-            (parts, intermediates), J, M = c
-            return _printed_class(rule)(Tuple(*[v for v, _ in parts]), Tuple(*intermediates), J, M,
-                                        Tuple(*[Str(label) for _, label in parts]))
+        def unnamed_value(self, c):
+            return c[0], None
 
         def coupled_ket(self, c):
-            return self._coupled("coupled_ket", c)
+            return _coupled_state("ket", _Node(c[:-1]), c[-1])
 
         def coupled_bra(self, c):
-            return self._coupled("coupled_bra", c)
+            return _coupled_state("bra", _Node(c[:-1]), c[-1])
 
         def _fock(self, rule, c):
             from sympy import Tuple
@@ -750,11 +769,18 @@ def _transformer(limits, names):
             first, cross, second, _pow, rank = c
             if str(cross) != "x":
                 raise ParseError("a coupled tensor operator must be written [A x B]^(K)")
+            parts = []
             for part in (first, second):
-                if isinstance(part, Symbol) or part.is_Pow:
+                # a bare name is an angular momentum by its label ([I x J]^(0)); I and pi were read
+                # as constants by the name rule
+                label = {I: "I", pi: "pi"}.get(part, part.name if isinstance(part, Symbol) else None)
+                if label is not None:
+                    part = getattr(importlib.import_module("amalgebra.algebra"), "AngularMomentum")(label)
+                elif part.is_Pow:
                     raise ParseError("the parts of a coupled tensor operator must name their labels: "
                                      "[T^(k)[J] x U^(q)[S]]^(K) (the printed [T^(k) x U^(q)]^(K) does not say them)")
-            return _printed_class("coupled_tensor")(first, second, rank)
+                parts.append(part)
+            return _printed_class("coupled_tensor")(*parts, rank)
 
         def sum(self, c):
             # One flat Add (and one flat Mul below), as SymPy builds them: binary
@@ -802,6 +828,98 @@ def _transformer(limits, names):
             return bounded(Pow(base, exponent))
 
     return Build()
+
+
+class _Node:
+    """An inner node ``(left right)value`` of a coupled or tree ket as read: children, whether a
+    comma stood between them, and ``(value, name)`` of its momentum (name None when unnamed)."""
+
+    __slots__ = ("left", "right", "comma", "value", "name")
+
+    def __init__(self, children):
+        children = list(children)
+        self.comma = len(children) == 4
+        self.left, self.right = children[0], children[-2]
+        self.value, self.name = children[-1]
+
+
+def _coupled_state(side, root, M):
+    """A ket (``side="ket"``) or bra read as ``|(...)J, M>``: a coupled ket when no inner
+    momentum has a name and the tree is a chain written without commas, a tree ket when every
+    inner momentum has a name; anything between is refused (it would say too little)."""
+    inner, stack = [], [root]
+    while stack:
+        node = stack.pop()
+        if isinstance(node, _Node):
+            inner.append(node)
+            stack.extend((node.left, node.right))
+    named = [node.name is not None for node in inner]
+    if all(named):
+        return _tree_state(side, root, M)
+    if any(named):
+        raise ParseError("the momenta of a tree ket must all be named (|(1_a 1_b)2_J, 0>), or none of "
+                         "the inner ones (a coupled ket |(1_a 1_b)2, 0>)")
+    js, labels, intermediates, node = [], [], [], root
+    while isinstance(node, _Node):
+        if node.comma or isinstance(node.right, _Node):
+            raise ParseError("a ket coupled in a tree other than a chain, or written with commas, must "
+                             "name its inner momenta: |((1_a 1_b)2_j, 1_c)1_J, 0> (the form of a tree ket)")
+        js.append(node.right[0])
+        labels.append(node.right[1])
+        intermediates.append(node.value)
+        node = node.left
+    js.append(node[0])
+    labels.append(node[1])
+    from sympy import Tuple
+    from sympy.core.symbol import Str
+
+    J, intermediates = intermediates[0], intermediates[1:][::-1]
+    return _printed_class("coupled_" + side)(Tuple(*js[::-1]), Tuple(*intermediates), J, M,
+                                            Tuple(*[Str(label) for label in labels[::-1]]))
+
+
+def _tree_state(side, root, M):
+    """The tree ket (or bra) of ``|(1_a 1/2_b)3/2_J, 1/2>``: the tree from the names, its values."""
+    values = {}
+
+    def walk(node):
+        if not isinstance(node, _Node):
+            value, name = node
+        else:
+            left, right = walk(node.left), walk(node.right)
+            sep = ", " if isinstance(node.left, _Node) or isinstance(node.right, _Node) else " "
+            value, name = node.value, node.name
+        if name in values:
+            raise ParseError(f"momentum name={name!r} must be given once in a tree ket")
+        values[name] = value
+        return name if not isinstance(node, _Node) else f"({left}{sep}{right}) {name}"
+
+    text = walk(root)
+    tree = _printed_class("tree")(text, values)
+    module = importlib.import_module("amalgebra.states.tree_kets")
+    return getattr(module, "TreeKet" if side == "ket" else "TreeBra")(tree, M)
+
+
+_TENSOR_KINDS = ("abstract", "unit", "racah")
+
+
+def _settings(words, *, kinds):
+    """``(kind, hermitian)`` from the words after the label in ``[L, racah, general]``: at most one
+    kind (of ``kinds``) and at most one of ``hermitian`` / ``general``, defaults ``abstract``, True."""
+    kind, hermitian, seen = "abstract", True, set()
+    for word in words:
+        group = "kind" if word in kinds else "hermitian" if word in ("hermitian", "general") else None
+        if group is None:
+            allowed = [*kinds, "hermitian", "general"]
+            raise ParseError(f"setting={word!r} after the label must be one of {allowed}")
+        if group in seen:
+            raise ParseError(f"the {group} setting must be given at most once")
+        seen.add(group)
+        if group == "kind":
+            kind = word
+        else:
+            hermitian = word == "hermitian"
+    return kind, hermitian
 
 
 def _labelled(token, limits):
@@ -1169,7 +1287,8 @@ def _write_constructed(e):
     labels = sorted({node.name for node in preorder_traversal(e) if isinstance(node, Str)})
     for spec in CONSTRUCTORS.values():
         if spec.attribute is None:
-            if type(e).__name__ != spec.factory or len(e.args) != len(spec.kinds):
+            if (type(e).__name__ != spec.factory or len(e.args) != len(spec.kinds)
+                    or "setting" in spec.kinds):  # such classes have printed writers
                 continue
             args, parts = [], []
             for kind, arg in zip(spec.kinds, e.args, strict=True):
@@ -1233,12 +1352,10 @@ def _labelled_text(value, label):
 
 
 def _write_printed(e):
-    """The library's own printed form of ``e`` (its ``str``, made complete), or None.
+    """The library's own printed form of ``e`` (the text of its ``str``), or None.
 
-    Where ``str`` leaves out something that the object holds, the text adds it in the
-    grammar's own way: a vector component names its operator's label (``r[L].z``, printed
-    ``r.z``), a tensor component its tensor's label (``T^(2)[J]_(1)``, printed ``T^(2)_(1)``).
-    Objects whose defaults the text cannot state (a non-Hermitian vector operator, a tensor
+    Sub-expressions are written by :func:`to_text` (``1/2*x^2`` where str has ``x**2/2``).
+    Objects whose settings the text cannot state (a non-Hermitian vector operator, a tensor
     of another kind) are refused by the rebuild check.
     """
     name = type(e).__name__
@@ -1271,20 +1388,32 @@ def _w_boson_mode(e):
     return f"BosonMode('{_label_text(e.label)}')"
 
 
+def _w_settings(e):
+    """``[L]``, ``[L, racah, general]``: the label and the settings that are not the defaults."""
+    words = [_label_text(e.label)]
+    kind = getattr(e, "kind", None)  # a tensor's kind (a vector has SymPy's own .kind, not a str)
+    if isinstance(kind, str) and kind != "abstract":
+        words.append(kind)
+    if not e.hermitian:
+        words.append("general")
+    return "[" + ", ".join(words) + "]"
+
+
 def _w_vector(e):
-    text = f"VectorOperator('{_label_text(e.name)}', '{_label_text(e.label)}')"
-    return _checked(e, text, type(e)(e.name, e.label))
+    general = "" if e.hermitian else ", 'general'"
+    text = f"VectorOperator('{_label_text(e.name)}', '{_label_text(e.label)}'{general})"
+    return _checked(e, text, type(e)(e.name, e.label, e.hermitian))
 
 
 def _w_vector_component(e):
     v = e.vector
     _w_vector(v)
-    return f"{_name_text(v.name)}[{_label_text(v.label)}].{e.axis}"
+    return f"{_name_text(v.name)}{_w_settings(v)}.{e.axis}"
 
 
 def _w_tensor(e):
-    text = f"{_name_text(e.name)}^({_text(e.rank)})[{_label_text(e.label)}]"
-    return _checked(e, text, type(e)(e.name, e.rank, label=e.label))
+    text = f"{_name_text(e.name)}^({_text(e.rank)}){_w_settings(e)}"
+    return _checked(e, text, type(e)(e.name, e.rank, e.label, e.kind, e.hermitian))
 
 
 def _w_tensor_component(e):
@@ -1388,8 +1517,8 @@ _PRINTED_WRITERS = {
     "Coupling9j": _w_array("9j", "{", "}"),
     "TriangleDelta": _w_triangle,
     "CouplingTree": lambda e: _w_tree(e),
-    "TreeKet": lambda e: f"TreeKet({_w_tree(e.tree)}, {_text(e.M)})",
-    "TreeBra": lambda e: f"TreeBra({_w_tree(e.tree)}, {_text(e.M)})",
+    "TreeKet": lambda e: f"|{_w_tree_state_body(e)}>",
+    "TreeBra": lambda e: f"<{_w_tree_state_body(e)}|",
     "CoupledTensorOperator": lambda e: _w_coupled_tensor(e),
 }
 
@@ -1412,10 +1541,26 @@ def _w_tree(e):
     return text
 
 
+def _w_tree_state_body(e):
+    """``(1_a 1/2_b)3/2_J, 1/2``: every momentum of the tree with its name, then ``M``."""
+    values = e.tree.values
+
+    def walk(node):
+        if isinstance(node, str):
+            return _labelled_text(values[node], node)
+        sep = ", " if not isinstance(node[0], str) or not isinstance(node[1], str) else " "
+        return f"({walk(node[0])}{sep}{walk(node[1])}){_labelled_text(values[node[2]], node[2])}"
+
+    return f"{walk(e.tree.structure)}, {_text(e.M)}"
+
+
 def _w_coupled_tensor(e):
     first, second, rank = e.args
     return f"[{_w_part(first)} x {_w_part(second)}]^({_text(rank)})"
 
 
 def _w_part(part):
+    """A part of ``[A x B]^(K)``: an angular momentum by its bare label, as printed."""
+    if type(part).__name__ == "AngularMomentum":
+        return _label_text(part.label)
     return _write_printed(part) or _text(part)

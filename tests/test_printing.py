@@ -85,22 +85,24 @@ TABLE = [
     ("reduced",    ReducedMatrixElement("T", 1, 1, 1),            "<1||T^(1)||1>",                      "⟨1‖T^(1)‖1⟩",                       r"\langle 1 \| T^{(1)} \| 1 \rangle"),
     ("reduced_cg", ReducedMatrixElement("Q", 2, 1, 1, "cg"),      "<1||Q^(2)||1>_cg",                   "⟨1‖Q^(2)‖1⟩_cg",                    r"\langle 1 \| Q^{(2)} \| 1 \rangle_{\mathrm{CG}}"),
     ("tensor",     T,                                             "T^(2)[J]",                           "T^(2)",                             r"T^{(2)}"),
-    ("tensor_q",   T[-1],                                         "T^(2)_(-1)",                         _lines(" (2)", "T   ", " -1 "),     r"{T^{(2)}_{-1}}"),
+    # str says the label a tensor or vector is under (issue 15: parse(str(x)) == x); pretty and LaTeX do not
+    ("tensor_q",   T[-1],                                         "T^(2)[J]_(-1)",                      _lines(" (2)", "T   ", " -1 "),     r"{T^{(2)}_{-1}}"),
     ("vector",     R,                                             "VectorOperator('r', 'L')",           "r",                                 r"\mathbf{r}"),
-    ("vector_z",   R.z,                                           "r.z",                                "r_z",                               r"r_{z}"),
+    ("vector_z",   R.z,                                           "r[L].z",                             "r_z",                               r"r_{z}"),
     ("components", TensorComponents(1, (a, b, c)),                "TensorComponents(1, (a, b, c))",     "[a, b, c]^(1)",                     r"\left[a,\ b,\ c\right]^{(1)}"),
     ("tree",       coupling_tree("((l1 s1) j1, (l2 s2) j2) J"),  "((l1 s1) j1, (l2 s2) j2) J",         "((l1 s1) j1, (l2 s2) j2) J",
      r"\left(\left(l_{1}\, s_{1}\right) j_{1},\, \left(l_{2}\, s_{2}\right) j_{2}\right) J"),
     ("tree_values", coupling_tree("((l s) j, I) F", l=2, s="1/2", j="5/2", I="7/2", F=3),
      "((l s) j, I) F [l=2, s=1/2, j=5/2, I=7/2, F=3]",                                                    "((l s) j, I) F [l=2, s=1/2, j=5/2, I=7/2, F=3]",
      r"\left(\left(l\, s\right) j,\, I\right) F\quad \left(l = 2,\, s = \frac{1}{2},\, j = \frac{5}{2},\, I = \frac{7}{2},\, F = 3\right)"),
-    # the tree kets take the angle brackets of the coupled kets above (Unicode pretty: the closing angle)
-    ("tree_ket",   FINE,                                          "|(1_l 1/2_s)3/2, 1/2>",              "|(1_l 1/2_s)3/2, 1/2⟩",
-     r"\left|\left(1_{l}\, \frac{1}{2}_{s}\right) \frac{3}{2}, \frac{1}{2}\right\rangle"),
-    ("tree_bra",   FINE.dual(),                                   "<(1_l 1/2_s)3/2, 1/2|",              "⟨(1_l 1/2_s)3/2, 1/2|",
-     r"\left\langle \left(1_{l}\, \frac{1}{2}_{s}\right) \frac{3}{2}, \frac{1}{2}\right|"),
+    # the tree kets take the angle brackets of the coupled kets above (Unicode pretty: the closing angle);
+    # every momentum carries its name, the intermediate and total ones too (a coupled ket's do not)
+    ("tree_ket",   FINE,                                          "|(1_l 1/2_s)3/2_j, 1/2>",            "|(1_l 1/2_s)3/2_j, 1/2⟩",
+     r"\left|\left(1_{l}\, \frac{1}{2}_{s}\right) \frac{3}{2}_{j}, \frac{1}{2}\right\rangle"),
+    ("tree_bra",   FINE.dual(),                                   "<(1_l 1/2_s)3/2_j, 1/2|",            "⟨(1_l 1/2_s)3/2_j, 1/2|",
+     r"\left\langle \left(1_{l}\, \frac{1}{2}_{s}\right) \frac{3}{2}_{j}, \frac{1}{2}\right|"),
     ("coupled_op", CoupledTensorOperator(SphericalTensor("T", 1, "a"), SphericalTensor("U", 2, "b"), 2),
-     "[T^(1) x U^(2)]^(2)",                                                                                 "[T^(1) × U^(2)]^(2)",
+     "[T^(1)[a] x U^(2)[b]]^(2)",                                                                           "[T^(1) × U^(2)]^(2)",
      r"\left[T^{(1)} \times U^{(2)}\right]^{(2)}"),
     # the triangle symbol Delta(a b c) as the textbooks write it (arguments sorted: it is symmetric)
     ("triangle",   TriangleDelta(c, a, b),                        "TriangleDelta(a, b, c)",             "Δ(a, b, c)",                        r"\Delta\left(a, b, c\right)"),
@@ -132,6 +134,14 @@ COMPOSITES = [
 @pytest.mark.parametrize("name, obj, text, unicode, tex", TABLE, ids=IDS)
 def test_str(name, obj, text, unicode, tex):
     assert str(obj) == text
+
+
+@pytest.mark.parametrize("name, obj, text, unicode, tex", TABLE, ids=IDS)
+def test_str_reads_back(name, obj, text, unicode, tex):
+    # issue 15: every str form of the table says all its object holds
+    from amalgebra.parsing import parse
+
+    assert parse(text) == obj
 
 
 @pytest.mark.parametrize("name, obj, text, unicode, tex", TABLE, ids=IDS)

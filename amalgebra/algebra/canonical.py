@@ -33,7 +33,8 @@ matrix element of one angular-momentum term is read off directly:
 Examples
 ========
 
->>> from amalgebra.algebra import AngularMomentum, canonical
+>>> from amalgebra.algebra import AngularMomentum
+>>> from amalgebra.algebra.canonical import canonical   # (the package exports it too)
 >>> J = AngularMomentum("J")
 >>> canonical(J.plus*J.minus)         # Sakurai (3.5.x): J+J- = J^2 - Jz^2 + Jz
 J.squared + J.z - J.z**2
@@ -78,7 +79,7 @@ def canonical(expr, components="ladder"):
     in Fourier form), so equal operators give ``==`` results:
 
     >>> from sympy import I, Symbol, cos, sin
-    >>> from amalgebra.algebra import AngularMomentum, canonical
+    >>> from amalgebra.algebra import AngularMomentum
     >>> J = AngularMomentum("J")
     >>> b, t = Symbol("b"), Symbol("t")
     >>> canonical(b*J.x + b*J.y)
@@ -92,7 +93,7 @@ def canonical(expr, components="ladder"):
     ========
 
     >>> from sympy import Symbol
-    >>> from amalgebra.algebra import AngularMomentum, canonical
+    >>> from amalgebra.algebra import AngularMomentum
     >>> J, S = AngularMomentum("J"), AngularMomentum("S")
     >>> a = Symbol("a")
     >>> canonical(S.z*J.plus*a)
@@ -110,7 +111,7 @@ def canonical(expr, components="ladder"):
     >>> from amalgebra.tensors import VectorOperator
     >>> r = VectorOperator("r", "J")
     >>> canonical(r.z*J.plus)                  # z J+ = J+ z - [J+, z] = J+ z + x + i y
-    J.plus*r.z + r.x + I*r.y
+    J.plus*r[J].z + r[J].x + I*r[J].y
     >>> canonical(r.x*S.z*r.y) == S.z*r.x*r.y  # another label commutes; x, y keep their order
     True
 

@@ -42,7 +42,7 @@ rotating :math:`V_x` about :math:`z` by angle :math:`t` gives
 >>> from amalgebra.tensors import VectorOperator
 >>> V = VectorOperator("V", "J")
 >>> commutator(J.x, V.y)
-I*V.z
+I*V[J].z
 >>> adjoint_action(-I*t*J.z, V.x, 3) == canonical((1 - t**2/2)*V.x + (t - t**3/6)*V.y)
 True
 
@@ -82,7 +82,7 @@ def commutator(a, b):
     >>> from amalgebra.tensors import SphericalTensor
     >>> T = SphericalTensor("T", 2, "J")
     >>> commutator(J.plus, T[1])             # sqrt((k - q)(k + q + 1)) T_{q+1}, Sakurai (3.11.x)
-    2*T^(2)_(2)
+    2*T^(2)[J]_(2)
 
     Parameters
     ==========
@@ -112,7 +112,7 @@ def nested_commutator(x, y, n):
     >>> from amalgebra.tensors import SphericalTensor
     >>> T = SphericalTensor("T", 2, "J")
     >>> nested_commutator(J.z, T[-2], 3)        # ad_{Jz}^n T_q = q^n T_q
-    -8*T^(2)_(-2)
+    -8*T^(2)[J]_(-2)
     """
     n = _count(n, "n")
     algebra, (ex, ey) = kernel_for(x, y)
@@ -140,7 +140,7 @@ def adjoint_action(x, y, order):
     >>> from amalgebra.tensors import SphericalTensor
     >>> T = SphericalTensor("T", 2, "J")
     >>> adjoint_action(-I*b*J.z, T[2], 2)
-    -(2*b**2 + 2*I*b - 1)*T^(2)_(2)
+    -(2*b**2 + 2*I*b - 1)*T^(2)[J]_(2)
 
     Parameters
     ==========

@@ -7,7 +7,8 @@ Public map
     ``to_matrix`` for any expression the library builds (one route decision), single multiplets,
     ``verify_identity`` / ``assert_identity``;
 :mod:`amalgebra.matrices.multiplets`
-    matrices on direct sums of multiplets, tensor and vector components by the Wigner-Eckart theorem.
+    numeric (numpy, scipy.sparse) matrices on direct sums of multiplets, tensor and vector components by the
+    Wigner-Eckart theorem (exact matrices come from :mod:`amalgebra.states.engine`).
 """
 
 from . import explicit, multiplets

@@ -34,13 +34,17 @@ factor.
 Expressions may also contain spherical tensor components :math:`T^k_q` and
 Cartesian vector components (:mod:`amalgebra.tensors`): their matrices come
 from the Wigner-Eckart theorem (Edmonds normalisation, design.md) with
-symbolic or given reduced elements; see :func:`to_matrix`.  Exact matrices of
-angular-momentum polynomials (single multiplets or direct sums) come from the
-one engine, :mod:`amalgebra.states.engine` (the canonical form as above,
-column by column); expressions with tensor components, and the float kinds
-on direct sums, are evaluated by sparse matrix products of the atoms'
-matrices (:mod:`amalgebra.matrices.multiplets`), so a product of tensor
-components is the product of their matrices on the given space.
+symbolic or given reduced elements; see :func:`to_matrix`.  Every exact
+matrix comes from the one engine, :mod:`amalgebra.states.engine`, column by
+column (the action on each basis state; angular-momentum polynomials through
+their canonical form as above, tensor components by Wigner-Eckart, words of a
+sum sharing the action of their common right-hand parts), so a product of
+tensor components is the product of their matrices on the given space.  The
+float kinds are the numeric layer: the vectorised read-off above for
+angular-momentum polynomials on single multiplets, products of numpy/scipy
+matrices of the atoms (:mod:`amalgebra.matrices.multiplets`) otherwise, with
+the ladder factor of :mod:`amalgebra._exact` and the Wigner-Eckart factor of
+:mod:`amalgebra.tensors.wigner_eckart` in both.
 
 ``kind="exact"`` returns a SymPy ``Matrix`` (free symbols in coefficients are
 kept); ``kind="float"`` a ``numpy.ndarray`` (complex only when needed: on the
@@ -80,13 +84,13 @@ from sympy.printing.defaults import Printable
 
 from .. import notation
 from ..algebra.convert import _check_expr, angular_momentum_kernel
-from ..errors import ConventionError, NotNumericError, OperatorError, QuantumNumberError
-from ..limits import check_limit
-from .multiplets import (check_reduced, kernel_only, multiplet_basis, multiplet_matrix,
-                                 require_numpy, require_scipy_sparse)
+from .._exact import ladder_float_array
 from .._validation import label_key
-from ..qnumbers import half_integer
+from ..errors import ConventionError, NotNumericError, OperatorError
+from ..limits import check_limit
+from ..states.engine import check_reduced, kernel_only
 from ..tensors.wigner_eckart import check_convention
+from .multiplets import multiplet_basis, multiplet_matrix, require_numpy, require_scipy_sparse
 
 __all__ = ["to_matrix", "verify_identity", "assert_identity", "IdentityCheck"]
 
@@ -97,27 +101,15 @@ _LISTS = (list, tuple, Tuple)
 
 
 def _check_j(j):
-    """``(spaces, listed)``: label -> tuple of j values (sorted labels), and whether a list was given."""
-    if not isinstance(j, dict) or not j:
-        raise OperatorError(f"j={j!r} must be a non-empty dict label -> j value, e.g. {{'J': '3/2'}}")
-    out, listed = {}, False
-    for label in sorted(j, key=lambda lab: label_key(lab) if isinstance(lab, str) else ('', -1, str(lab))):
-        if not isinstance(label, str):
-            raise OperatorError(f"j key {label!r} must be a label str such as 'J'")
-        value = j[label]
-        name = f"j[{label!r}]"
-        if isinstance(value, _LISTS):
-            listed = True
-            if len(value) == 0:
-                raise QuantumNumberError(f"{name}={value!r} must list at least one j value")
-            js = tuple(half_integer(v, name, nonnegative=True) for v in value)
-            if len(set(js)) != len(js):
-                raise QuantumNumberError(f"{name}={list(js)} must not repeat a j value: one multiplet "
-                                         f"per j (reduced elements are keyed by (j', j))")
-        else:
-            js = (half_integer(value, name, nonnegative=True),)
-        out[label] = js
-    return out, listed
+    """``(spaces, listed)``: label -> tuple of j values (package label order), and whether a list was given.
+
+    The space is read by the one reader, :func:`amalgebra.states.basis.read_space`
+    (``OperatorError`` for a malformed dict or label, as everywhere in ``to_matrix``).
+    """
+    from ..states.basis import read_space
+
+    spaces = read_space(j, "j", OperatorError)
+    return spaces, any(isinstance(v, _LISTS) for v in j.values())
 
 
 def _check_size(spaces, kind):
@@ -277,7 +269,7 @@ def to_matrix(expr, j, kind="exact", subs=None, reduced=None, convention="edmond
     _check_size(spaces, kind)
     table = check_reduced(reduced)
     expr = _check_expr(expr)
-    if kind == "exact" and kernel_only(expr):
+    if kind == "exact":
         matrix = _exact(expr, spaces, subs, table, convention)
     elif listed or not kernel_only(expr) or list(spaces) != sorted(spaces):
         # (the vectorised read-off below follows the kernel's plain string order of labels; when the
@@ -371,18 +363,12 @@ def _floating(algebra, element, labels, jvals, dims, kind, subs):
             r = c - d
             ok = (r >= 0) & (r < dims[i])
             c, r, m = c[ok], r[ok], ms[i][ok]
-            lad = np.ones(len(c))
-            for k in range(abs(d)):
-                if d > 0:
-                    lad = lad * (js[i] - m - k) * (js[i] + m + k + 1)
-                else:
-                    lad = lad * (js[i] + m - k) * (js[i] - m + k + 1)
             if len(c) == 0:
                 empty = True
                 break
             cols_1d.append(c)
             rows_1d.append(r)
-            lad_1d.append(np.sqrt(lad))
+            lad_1d.append(ladder_float_array(js[i], m, d))    # row r = c - d holds m + d (row 0 is m = j)
         if empty:
             continue
         data = np.zeros(prod(len(c) for c in cols_1d), dtype=dtype)

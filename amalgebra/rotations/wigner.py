@@ -66,6 +66,7 @@ from functools import lru_cache
 
 from sympy import Add, Expr, Float, I, Integer, Matrix, Mul, Pow, Rational, S, cos, exp, sin, sqrt
 from sympy.core.add import _args_sortkey
+from sympy.core.basic import ordering_of_classes
 
 from ..lambdify_kernels import wigner_D_float
 from ..notation import CodeHooks, NotationHooks
@@ -212,6 +213,71 @@ def _matrix_j(j):
 # Expression assembly
 # ---------------------------------------------------------------------------
 
+def _power_product(c, a, s, b):
+    """``c**a * s**b`` for two distinct non-numeric function values (a, b >= 0)."""
+    if a == 0 or b == 0:
+        return c ** a * s ** b
+    return Mul._from_args(sorted((c ** a, s ** b), key=_args_sortkey), is_commutative=True)
+
+
+def _rational(num, den):
+    """``Rational(num, den)`` for ``den > 0`` without SymPy's own gcd and cache (the gcd in C)."""
+    g = math.gcd(num, den)
+    return Rational.from_coprime_ints(num // g, den // g)
+
+
+@lru_cache(maxsize=None)
+def _class_key(cls):
+    """The position of a class in SymPy's canonical order (``Basic.compare`` via ``_cmp_name``):
+    listed classes by their index, unlisted ones after them by name."""
+    name = cls.__name__
+    try:
+        return ordering_of_classes.index(name), ""
+    except ValueError:
+        return len(ordering_of_classes) + 1, name
+
+
+class _TermOrder:
+    """A sort key that orders the terms ``q * c^a * s^(2j-a)`` of one angle exactly as ``Add`` does.
+
+    ``Add`` sorts its terms with ``Basic.compare`` (class, then length of the
+    arguments, then the arguments in turn); a Python ``cmp_to_key`` over that
+    was a third of the time of a whole d matrix.  The same order comes from
+    plain tuples: a term's class, its argument count and, per argument, the
+    class with the number's ``(p, q)`` or the rank of the factor among all
+    factors of this angle (ranked once, by ``Basic.compare`` itself).
+    ``tests/test_rotations_bulk.py`` holds the result to the generic ``Add``.
+    """
+
+    def __init__(self, monomials, factors):
+        pieces = {f for fs in factors for f in fs} | {m for m in monomials if not isinstance(m, Mul)}
+        ranked = sorted(pieces, key=_args_sortkey)
+        self.rank = {piece: (_class_key(type(piece)), i) for i, piece in enumerate(ranked)}
+        self.mul = _class_key(Mul)
+
+    def monomial_keys(self, monomials, factors):
+        """Per power ``a``: the key of the bare monomial and the key tail of its factors."""
+        return [(self.key(m), tuple(self.rank[f] for f in fs)) for m, fs in zip(monomials, factors)]
+
+    def key(self, term):
+        if not isinstance(term, Mul):
+            return self.rank[term]
+        args = term.args
+        first = args[0]
+        if first.is_Number:
+            head = ((_class_key(type(first)), first._hashable_content()),)
+            args = args[1:]
+        else:
+            head = ()
+        return self.mul, len(term.args), head + tuple(self.rank[f] for f in args)
+
+    def term_key(self, coefficient, bare, tail):
+        """The key of ``coefficient * monomial`` from the monomial's keys (no Mul needed)."""
+        if coefficient == 1:
+            return bare
+        return self.mul, len(tail) + 1, ((_class_key(type(coefficient)), coefficient._hashable_content()),) + tail
+
+
 class _HalfAngleBuilder:
     """Builds d-elements for one angle, sharing monomials and polynomials.
 
@@ -227,18 +293,26 @@ class _HalfAngleBuilder:
     def __init__(self, tj, beta):
         self.tj = tj
         c, s = cos(beta / 2), sin(beta / 2)
-        self.monomials = [c ** a * s ** (tj - a) for a in range(tj + 1)]
+        if type(c) is cos and type(s) is sin:
+            # c^a s^b as Mul builds it (its two powers sorted), without Mul's flattening
+            self.monomials = [_power_product(c, a, s, tj - a) for a in range(tj + 1)]
+        else:  # a numeric or signed half angle: let SymPy evaluate
+            self.monomials = [c ** a * s ** (tj - a) for a in range(tj + 1)]
         self.factors = [m.args if isinstance(m, Mul) else (m,) for m in self.monomials]
         # the bulk route needs monomials that are products of symbolic powers with no number in
         # them (a numeric angle, or one like -x whose sine carries a sign, takes the generic route)
         self.bulk = all(not f.is_number for m in self.factors for f in m)
         self.polys = {}
         self.roots = {}
+        if self.bulk:
+            order = _TermOrder(self.monomials, self.factors)
+            self.term_key = order.term_key
+            self.keys = order.monomial_keys(self.monomials, self.factors)
 
     def _term(self, coefficient, a):
         if coefficient == 1:
             return self.monomials[a]
-        return Mul._from_args((coefficient, *self.factors[a]))
+        return Mul._from_args((coefficient, *self.factors[a]), is_commutative=True)
 
     def _poly(self, tmp, tm, negate):
         key = (tmp, tm, negate)
@@ -249,12 +323,13 @@ class _HalfAngleBuilder:
                 poly = Add(*[Rational(sign * num, den) * self.monomials[a] for a, num, den in terms])
                 self.polys[key] = (inside, poly)
                 return self.polys[key]
-            args = [self._term(Rational(sign * num, den), a) for a, num, den in terms]
-            if len(args) == 1:
-                poly = args[0]
+            coefficients = [(_rational(sign * num, den), a) for a, num, den in terms]
+            if len(coefficients) == 1:
+                poly = self._term(*coefficients[0])
             else:
-                args.sort(key=_args_sortkey)
-                poly = Add._from_args(args)
+                keys, term_key = self.keys, self.term_key
+                coefficients.sort(key=lambda ca: term_key(ca[0], *keys[ca[1]]))
+                poly = Add._from_args([self._term(c, a) for c, a in coefficients], is_commutative=True)
             self.polys[key] = (inside, poly)
         return self.polys[key]
 

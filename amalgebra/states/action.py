@@ -164,7 +164,7 @@ def apply(op, state, *, reduced=None, convention="edmonds"):
 def _reduced_table(reduced):
     if reduced is None:
         return None
-    from ..matrices.multiplets import check_reduced
+    from .engine import check_reduced
 
     return check_reduced(reduced)
 

@@ -437,8 +437,8 @@ def check_labels(algebra, labels, op):
     """Every label of the kernel ``algebra`` must be an angular momentum among ``labels``."""
     for label, mode in zip(algebra.labels, algebra.modes):
         if mode is not ANGULAR_MOMENTUM:
-            raise OperatorError(f"label={label!r} of op={op} is a {mode.kind} mode: it acts on Fock kets "
-                                f"(amalgebra.bosons), not on |j m> kets")
+            raise OperatorError(f"label={label!r} of op={op} must be an angular momentum: it is a {mode.kind} "
+                                f"mode, which acts on Fock kets (amalgebra.bosons), not on |j m> kets")
         if label not in labels:
             raise OperatorError(f"operator factor of label={label!r} in op={op} must act on one of the labels "
                                 f"of the state; the state carries {list(labels)}")

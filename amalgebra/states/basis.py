@@ -52,29 +52,45 @@ __all__ = ["Basis", "product_basis", "read_space"]
 _LISTS = (list, tuple)
 
 
-def read_space(j, name="j"):
+def read_space(j, name="j", error=StateError):
     """``{label: tuple of Rational j}`` in the package's label order, from ``{label: j or [j values]}``.
+
+    The one reader of a space specification, used by
+    :func:`~amalgebra.matrices.explicit.to_matrix`,
+    :func:`~amalgebra.states.hamiltonian.hamiltonian_matrix` and
+    :func:`product_basis`: labels follow the one label rule
+    (:func:`amalgebra._validation.check_label`), a value is one j or a non-empty
+    list (``list``, ``tuple`` or SymPy ``Tuple``) of distinct j values, each read by
+    :mod:`amalgebra.qnumbers`.  A malformed dict or label raises ``error`` (as
+    :func:`~amalgebra._validation.check_label`, each caller keeps its error
+    class: ``OperatorError`` for ``to_matrix``, ``StateError`` for bases); a bad
+    j value raises :class:`~amalgebra.errors.QuantumNumberError` (or
+    ``NotNumericError``) everywhere.
 
     >>> read_space({"S": "1/2", "L": [0, 1]})
     {'L': (0, 1), 'S': (1/2,)}
+    >>> read_space({"_x": 1})
+    Traceback (most recent call last):
+    ...
+    amalgebra.errors.StateError: j key='_x' must be an identifier that starts with an ASCII letter, such as 'J', 'L1' or 'S_core'
     """
     from sympy import Tuple
 
     from .._validation import check_label
+    from ..errors import QuantumNumberError
 
     if not isinstance(j, dict) or not j:
-        raise StateError(f"{name}={j!r} must be a non-empty dict label -> j value or list of j values")
+        raise error(f"{name}={j!r} must be a non-empty dict label -> j value or list of j values, "
+                    f"e.g. {{'J': '3/2'}}")
     out = {}
-    for label in sorted(j, key=lambda lab: label_key(check_label(lab, f"{name} key", StateError))):
+    for label in sorted(j, key=lambda lab: label_key(check_label(lab, f"{name} key", error))):
         value = j[label]
-        where = f"{name}[{label!r}]"
+        where = f"{name}[{str(label)!r}]"
         if isinstance(value, _LISTS + (Tuple,)):
             if len(value) == 0:
-                from ..errors import QuantumNumberError
                 raise QuantumNumberError(f"{where}={value!r} must list at least one j value")
             js = tuple(half_integer(v, where, nonnegative=True) for v in value)
             if len(set(js)) != len(js):
-                from ..errors import QuantumNumberError
                 raise QuantumNumberError(f"{where}={list(js)} must not repeat a j value: one multiplet "
                                          f"per j (reduced elements are keyed by (j', j))")
         else:

@@ -7,17 +7,8 @@ Explanation
 :func:`~amalgebra.algebra.canonical` accepts on angular-momentum labels:
 components of any number of angular momenta, spherical tensor components
 :math:`T^k_q` and Cartesian vector components (:mod:`amalgebra.tensors`),
-products, sums, powers and symbolic coefficients.  The kernel gives its
-normal form (:mod:`amalgebra.tensors.mixedform`)
-
-.. math::
-
-    O = \sum_W A_W\, X_1 X_2 \cdots X_n ,
-
-angular-momentum polynomials :math:`A_W` to the left of words of tensor
-components in the order written.  On a basis state (a :math:`(j, m)` pair per
-label, numeric or symbolic) the word acts right to left, each component by
-the Wigner-Eckart theorem,
+products, sums, powers and symbolic coefficients.  Every tensor or vector
+component acts by the Wigner-Eckart theorem,
 
 .. math::
 
@@ -30,9 +21,30 @@ the Wigner-Eckart theorem,
 :math:`j'` running over :math:`|j-k|, \dots, j+k` (for symbolic :math:`j`:
 :math:`j + k, \dots, j - k`), and a vector through its rank-1 view,
 :math:`V_x = (V_{-1} - V_{+1})/\sqrt2`, :math:`V_y = i(V_{+1} + V_{-1})/\sqrt2`,
-:math:`V_z = V_0`.  Then :math:`A_W` acts through its
-:class:`~amalgebra.states.actionform.ActionForm` (Condon-Shortley ladder
-factors).  Reduced elements are the family's own (a symbol
+:math:`V_z = V_0`.  Every angular-momentum polynomial acts through its
+:class:`~amalgebra.states.actionform.ActionForm` (the m-shift normal form
+composed with :math:`J^2 \to j(j+1)`, :math:`J_z \to m`, times the
+Condon-Shortley ladder factors of :mod:`amalgebra._exact`).
+
+Two ways of reading an operator that contains tensor components share
+these two actions, and each is used where it pays:
+
+* on numeric basis states, the expression tree acts right to left (sums,
+  products, powers), the maximal angular-momentum-only subexpressions
+  through their action forms and the components by Wigner-Eckart, with the
+  action of every node (and every suffix of a product) on every basis state
+  memoised within one call, so shared suffixes of the words of a sum are
+  acted once;
+* on symbolic :math:`j, m`, the kernel's mixed normal form
+  (:mod:`amalgebra.tensors.mixedform`)
+  :math:`O = \sum_W A_W\, X_1 \cdots X_n` (angular-momentum polynomials to
+  the left of words of components in the order written) gives closed forms:
+  each word acts by Wigner-Eckart, then :math:`A_W` through its action form.
+
+Operators without tensor components always use their action form (one normal
+form, evaluated per state).  Both readings are the same operator algebra, so
+they agree wherever both apply (``tests/states/test_one_engine.py``).
+Reduced elements are the family's own (a symbol
 :math:`\langle j'\|T^k\|j\rangle` for abstract tensors, the known values for
 unit and Racah tensors) unless ``reduced`` gives them.
 
@@ -64,35 +76,51 @@ References
 
 from functools import lru_cache
 
-from sympy import Add, Expr, I, S, sqrt
+from sympy import Add, Expr, I, Mul, S, expand, sqrt
 
 from .._validation import as_expression, label_key
-from ..algebra.convert import kernel_of
+from ..algebra.convert import kernel_of, operator_power_base
 from ..algebra.extensions import claiming_extension
+from ..algebra.modes import mode_of
 from ..errors import OperatorError, QuantumNumberError
+from ..qnumbers import half_integer
 from ..tensors.wigner_eckart import check_convention, wigner_eckart_factor
-from .actionform import check_labels, form_of_element
+from .actionform import action_form, check_labels, form_of_element
 
-__all__ = ["CompiledOperator", "compile_operator", "matrix_entries", "reduced_lookup", "atom_family", "clear_caches"]
+__all__ = ["CompiledOperator", "compile_operator", "matrix_entries", "reduced_lookup", "check_reduced",
+           "kernel_only", "atom_family", "clear_caches"]
 
 
 class CompiledOperator:
     """An operator prepared for acting on basis states (see the module docstring).
 
-    ``labels`` are the state's labels (package label order); ``terms`` a list
-    of ``(coefficient, ActionForm, atoms)`` meaning ``coefficient * A * atoms``.
-    Not a SymPy object: a computation cache.
+    ``labels`` are the state's labels (package label order).  ``plan`` is
+    ``None`` for an angular-momentum polynomial, else the expression tree read
+    for acting on numeric states (node -> how it acts); :attr:`terms` is the
+    normal form as ``(coefficient, ActionForm, atoms)`` meaning
+    ``coefficient * A * atoms`` (for a tree, built on first use: only symbolic
+    states need it).  Not a SymPy object: a computation cache.
     """
 
-    __slots__ = ("labels", "terms", "families")
+    __slots__ = ("op", "labels", "families", "plan", "_terms")
 
-    def __init__(self, labels, terms, families):
+    def __init__(self, op, labels, families, plan, terms=None):
+        self.op = op
         self.labels = labels
-        self.terms = terms
         self.families = families
+        self.plan = plan
+        self._terms = terms
 
     def __repr__(self):
-        return f"CompiledOperator(labels={self.labels}, terms={len(self.terms)})"
+        shape = "normal form" if self.plan is None else f"tree of {len(self.plan)} nodes"
+        return f"CompiledOperator(labels={self.labels}, {shape})"
+
+    @property
+    def terms(self):
+        """The normal form, ``[(coefficient, ActionForm, tensor atoms)]`` (mixed form for tensors)."""
+        if self._terms is None:
+            self._terms = _normal_terms(self.op, self.labels)
+        return self._terms
 
     def act(self, state, reduced=None, convention="edmonds", allowed=None):
         """``{values: amplitude}`` of the operator applied to ``state`` = ``{values: amplitude}``.
@@ -101,11 +129,23 @@ class CompiledOperator:
         """
         convention = check_convention(convention)
         lookup = reduced_lookup(reduced or {}, convention)
-        state = {tuple((S(j), S(m)) for j, m in values): amp for values, amp in state.items()}
+        state = {tuple((S(j), S(m)) for j, m in values): as_expression(amp, "amplitude")
+                 for values, amp in state.items()}
         return self.act_with(state, lookup, convention, allowed)
 
-    def act_with(self, state, lookup, convention, allowed):
-        """Internal :meth:`act` with a prepared reduced-element ``lookup`` and SymPy ``(j, m)`` values."""
+    def act_with(self, state, lookup, convention, allowed, walker=None):
+        """Internal :meth:`act` with a prepared reduced-element ``lookup`` and SymPy ``(j, m)`` values.
+
+        ``walker`` (a :class:`_Walker` of this operator) carries the memo of
+        node actions between calls on the same space.
+        """
+        if self.plan is not None and _numeric(state):
+            if walker is None:
+                walker = _Walker(self, lookup, convention, allowed)
+            return walker.act(self.op, state)
+        return self._act_normal(state, lookup, convention, allowed)
+
+    def _act_normal(self, state, lookup, convention, allowed):
         out = {}
         for coefficient, form, atoms in self.terms:
             current = state
@@ -116,84 +156,198 @@ class CompiledOperator:
             if not current:
                 continue
             for values, amp in current.items():
-                prepared = form.prepare(values)
-                for shift in form.terms:
-                    a = form.shift_amplitude(shift, prepared)
-                    if a == 0:
-                        continue
-                    target = tuple((j, m + d) if d else (j, m) for (j, m), d in zip(values, shift))
+                for target, a in _form_action(form, values).items():
                     out.setdefault(target, []).append(coefficient * amp * a)
-        return _collect(out)
+        return _collect(out, expand=True)
 
     def element(self, goal, start, reduced=None, convention="edmonds"):
         """``<goal|op|start>`` for numeric basis states (tuples of ``(j, m)`` pairs), exact.
 
-        Terms without tensor components need only the one shift ``m' - m``;
-        the others act and pick the goal's amplitude.
+        Angular-momentum polynomials need only the one shift ``m' - m``; an
+        operator with tensor components acts on ``start`` and the goal's
+        amplitude is read off.
         """
+        if self.plan is not None:
+            convention = check_convention(convention)
+            lookup = reduced_lookup(reduced or {}, convention)
+            allowed = None
+            top = self.plan[self.op]
+            if top[0] == "atom":    # one component: only the goal's j' is needed (one 3j, not 2k + 1)
+                allowed = {top[1].label: (goal[top[4]][0],)}
+            return self.act_with({start: S.One}, lookup, convention, allowed).get(goal, S.Zero)
         total = []
-        lookup = None
-        for coefficient, form, atoms in self.terms:
-            if not atoms:
-                if any(g[0] != s[0] for g, s in zip(goal, start)):
-                    continue
-                shift = tuple(g[1] - s[1] for g, s in zip(goal, start))
-                if not all(d.is_Integer for d in shift):
-                    continue
-                shift = tuple(int(d) for d in shift)
-                if shift in form.terms:
-                    a = form.shift_amplitude(shift, form.prepare(start))
-                    if a != 0:
-                        total.append(coefficient * a)
+        for coefficient, form, _ in self.terms:
+            if any(g[0] != s[0] for g, s in zip(goal, start)):
                 continue
-            if lookup is None:
-                convention = check_convention(convention)
-                lookup = reduced_lookup(reduced or {}, convention)
-            current = {start: S.One}
-            for n, atom in enumerate(reversed(atoms)):
-                # A_W keeps every j: the last component acting on a label must land on the goal's j
-                label = atom_family(atom).label
-                last = all(atom_family(other).label != label for other in atoms[:len(atoms) - 1 - n])
-                allowed = {label: (goal[self.labels.index(label)][0],)} if last else None
-                current = self._atom(atom, current, lookup, convention, allowed)
-                if not current:
-                    break
-            for values, amp in current.items():
-                if any(g[0] != v[0] for g, v in zip(goal, values)):
-                    continue
-                shift = tuple(int(g[1] - v[1]) for g, v in zip(goal, values))
-                if shift in form.terms:
-                    a = form.shift_amplitude(shift, form.prepare(values))
-                    if a != 0:
-                        total.append(coefficient * amp * a)
+            shift = tuple(g[1] - s[1] for g, s in zip(goal, start))
+            if not all(d.is_Integer for d in shift):
+                continue
+            shift = tuple(int(d) for d in shift)
+            if shift in form.terms:
+                a = form.shift_amplitude(shift, form.prepare(start))
+                if a != 0:
+                    total.append(coefficient * a)
         return Add(*total).expand() if len(total) != 1 else total[0]
 
     def _atom(self, atom, state, lookup, convention, allowed):
-        tensor, parts = _spherical_parts(atom)
-        label = tensor.label
-        i = self.labels.index(label)
+        view, parts = _spherical_parts(atom)
+        i = self.labels.index(view.label)
+        allowed_js = None if allowed is None else allowed.get(view.label)
         out = {}
         for values, amp in state.items():
-            j, m = values[i]
-            for q, weight in parts:
-                mp = m + q
-                for jp in _targets(j, tensor.rank, None if allowed is None else allowed.get(label)):
-                    if jp.is_Rational and mp.is_Rational and abs(mp) > jp:
-                        continue
-                    factor = wigner_eckart_factor(jp, mp, tensor.rank, q, j, m, convention)
-                    if factor == 0:
-                        continue
-                    red = lookup(atom_family(atom), tensor, jp, j)
-                    if red == 0:
-                        continue
-                    value = factor * red
-                    if weight is not S.One:
-                        value = weight * value
-                    if amp is not S.One:
-                        value = amp * value
-                    target = values[:i] + ((jp, mp),) + values[i + 1:]
-                    out.setdefault(target, []).append(value)
-        return _collect(out)
+            for target, value in _component_action(view, parts, atom_family(atom), i, values, lookup,
+                                                   convention, allowed_js).items():
+                out.setdefault(target, []).append(amp * value)
+        return _collect(out, expand=True)
+
+
+class _Walker:
+    """Acts the expression tree of a :class:`CompiledOperator` on numeric states, memoising per basis state.
+
+    ``single(node, values)`` (the action of a node on one basis state) and the
+    action of every suffix of a product are kept for the walker's life (one
+    explicit matrix, one ``apply``), so words sharing a right-hand part act it once.
+    """
+
+    __slots__ = ("plan", "labels", "lookup", "convention", "allowed", "memo")
+
+    def __init__(self, compiled, lookup, convention, allowed):
+        self.plan = compiled.plan
+        self.labels = compiled.labels
+        self.lookup = lookup
+        self.convention = convention
+        self.allowed = allowed
+        self.memo = {}
+
+    def act(self, node, state):
+        """``node`` applied to the state ``{values: amplitude}``."""
+        if len(state) == 1:
+            ((values, amp),) = state.items()
+            image = self.single(node, values)
+            return image if amp is S.One else _scaled(image, amp)
+        parts = {}
+        for values, amp in state.items():
+            for target, a in self.single(node, values).items():
+                parts.setdefault(target, []).append(_times(amp, a))
+        return _collect(parts)
+
+    def single(self, node, values):
+        """``node |values>`` as ``{values: amplitude}`` (memoised; never mutate the result)."""
+        key = (node, values)
+        hit = self.memo.get(key)
+        if hit is None:
+            hit = self.memo[key] = self._single(node, values)
+        return hit
+
+    def _single(self, node, values):
+        entry = self.plan[node]
+        kind = entry[0]
+        if kind == "form":
+            return _form_action(entry[1], values)
+        if kind == "atom":
+            _, view, parts, family, i = entry
+            allowed_js = None if self.allowed is None else self.allowed.get(view.label)
+            return _component_action(view, parts, family, i, values, self.lookup, self.convention, allowed_js)
+        if kind == "add":
+            _, children, scalar = entry
+            parts = {values: [scalar]} if scalar != 0 else {}
+            for child in children:
+                for target, a in self.single(child, values).items():
+                    parts.setdefault(target, []).append(a)
+            return _collect(parts)
+        if kind == "mul":
+            _, coefficient, factors = entry
+            image = self._suffix(factors, values)
+            return image if coefficient is S.One else _scaled(image, coefficient)
+        _, base, n = entry          # "pow"
+        state = {values: S.One}
+        for _ in range(n):
+            state = self.act(base, state)
+            if not state:
+                break
+        return state
+
+    def _suffix(self, factors, values):
+        """``factors[0] * factors[1] * ... |values>``, every suffix memoised."""
+        if len(factors) == 1:
+            return self.single(factors[0], values)
+        key = (factors, values)
+        hit = self.memo.get(key)
+        if hit is None:
+            inner = self._suffix(factors[1:], values)
+            hit = self.memo[key] = self.act(factors[0], inner) if inner else {}
+        return hit
+
+
+def _numeric(state):
+    return all(j.is_Rational and m.is_Rational for values in state for j, m in values)
+
+
+def _form_action(form, values):
+    """``{target: amplitude}`` of an :class:`~amalgebra.states.actionform.ActionForm` on one basis state."""
+    prepared = form.prepare(values)
+    out = {}
+    for shift in form.terms:
+        a = form.shift_amplitude(shift, prepared)
+        if a == 0:
+            continue
+        if a.is_Mul and any(arg.is_Add for arg in a.args):     # c(j, m) * radicals, with c a sum
+            a = a.expand()
+        out[tuple((j, m + d) if d else (j, m) for (j, m), d in zip(values, shift))] = a
+    return out
+
+
+def _component_action(view, parts, family, i, values, lookup, convention, allowed_js):
+    """``{target: amplitude}`` of a tensor or vector component (rank-k ``view``, ``[(q, weight)]``) by Wigner-Eckart."""
+    j, m = values[i]
+    out = {}
+    for q, weight in parts:
+        mp = m + q
+        for jp in _targets(j, view.rank, allowed_js):
+            if jp.is_Rational and mp.is_Rational and abs(mp) > jp:
+                continue
+            factor = _geometric(jp, mp, view.rank, q, j, m, convention)
+            if factor == 0:
+                continue
+            red = lookup(family, view, jp, j)
+            if red == 0:
+                continue
+            value = _times(factor, red)
+            if weight is not S.One:
+                value = _times(weight, value)
+            target = values[:i] + ((jp, mp),) + values[i + 1:]
+            out.setdefault(target, []).append(value)
+    return _collect(out)
+
+
+@lru_cache(maxsize=65536)
+def _geometric(jp, mp, k, q, j, m, convention):
+    """:func:`~amalgebra.tensors.wigner_eckart.wigner_eckart_factor`, kept across calls (hashable SymPy numbers)."""
+    return wigner_eckart_factor(jp, mp, k, q, j, m, convention)
+
+
+def _times(x, y):
+    """``x * y`` for expanded ``x``, ``y``, expanded (sums distributed term by term; no ``expand`` call).
+
+    Amplitudes are kept expanded (sums of monomials in radicals, ``i`` and
+    symbols); a product of two monomials is one by SymPy's own ``Mul``.
+    """
+    if x is S.One:
+        return y
+    if y is S.One:
+        return x
+    if x.is_Add or y.is_Add:
+        return Add(*[a * b for a in Add.make_args(x) for b in Add.make_args(y)])
+    return x * y
+
+
+def _scaled(state, c):
+    out = {}
+    for target, a in state.items():
+        value = _times(c, a)
+        if value != 0:
+            out[target] = value
+    return out
 
 
 def matrix_entries(compiled, states, reduced=None, convention="edmonds", allowed=None, subs=None):
@@ -203,13 +357,17 @@ def matrix_entries(compiled, states, reduced=None, convention="edmonds", allowed
     are dropped (the matrix is the operator on that space: for angular
     momenta nothing is lost, tensor components are projected, and with
     ``allowed`` a product of components is the product of their matrices).
+    One memo of node actions serves all columns.
     """
     convention = check_convention(convention)
     lookup = reduced_lookup(reduced or {}, convention)
+    if allowed:
+        _check_orbital(compiled.families, allowed)
+    walker = _Walker(compiled, lookup, convention, allowed) if compiled.plan is not None else None
     index = {values: i for i, values in enumerate(states)}
     out = {}
     for col, values in enumerate(states):
-        for target, amp in compiled.act_with({values: S.One}, lookup, convention, allowed).items():
+        for target, amp in compiled.act_with({values: S.One}, lookup, convention, allowed, walker).items():
             row = index.get(target)
             if row is None:
                 continue
@@ -221,10 +379,33 @@ def matrix_entries(compiled, states, reduced=None, convention="edmonds", allowed
     return out
 
 
-def _collect(parts):
+def _check_orbital(families, allowed):
+    """A Racah tensor needs integer j on its label (refused before any work, whatever the operator reaches)."""
+    for family in families:
+        if getattr(family, "kind", None) != "racah":
+            continue
+        for jv in allowed.get(family.label, ()):
+            if not jv.is_integer:
+                _refuse_racah(family, jv)
+
+
+def _refuse_racah(view, j):
+    raise QuantumNumberError(f"j[{view.label!r}]={j} must be an integer l: {view.name} is the Racah tensor "
+                             f"C^{view.rank}, defined on orbital states")
+
+
+def _collect(parts, expand=False):
+    """``{key: sum of the list}``, zeros dropped.
+
+    The walker keeps every amplitude expanded, so a sum of them is (``Add``
+    flattens); the normal-form route multiplies unexpanded factors and asks
+    for ``expand``.
+    """
     out = {}
     for key, values in parts.items():
-        value = values[0] if len(values) == 1 else Add(*values).expand()
+        value = values[0] if len(values) == 1 else Add(*values)
+        if expand and len(values) > 1:
+            value = value.expand()
         if value != 0:
             out[key] = value
     return out
@@ -248,19 +429,85 @@ def atom_family(atom):
 
 
 def _spherical_parts(atom):
-    """``(rank-k tensor view, [(q, weight)])`` of a tensor or vector component."""
+    """``(rank-k tensor view, ((q, weight), ...))`` of a tensor or vector component."""
     from ..tensors.spherical import SphericalTensor, TensorComponent
 
     if isinstance(atom, TensorComponent):
-        return atom.tensor, [(atom.q, S.One)]
+        return atom.tensor, ((atom.q, S.One),)
     vector = atom.vector
     view = SphericalTensor(vector.name, 1, vector.label, "abstract", vector.hermitian)
     root = sqrt(2) / 2
     if atom.axis == "z":
-        return view, [(S.Zero, S.One)]
+        return view, ((S.Zero, S.One),)
     if atom.axis == "x":          # V_x = (V_{-1} - V_{+1})/sqrt2
-        return view, [(S.One, -root), (S.NegativeOne, root)]
-    return view, [(S.One, I * root), (S.NegativeOne, I * root)]   # V_y = i(V_{+1} + V_{-1})/sqrt2
+        return view, ((S.One, -root), (S.NegativeOne, root))
+    return view, ((S.One, I * root), (S.NegativeOne, I * root))   # V_y = i(V_{+1} + V_{-1})/sqrt2
+
+
+def kernel_only(expr):
+    """True when every noncommutative leaf of ``expr`` is a generator the shift-form kernel knows.
+
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> from amalgebra.tensors import racah_tensor
+    >>> L = AngularMomentum("L")
+    >>> kernel_only(L.x * L.z + 2), kernel_only(L.z * racah_tensor(1)[0])
+    (True, False)
+    """
+    stack = [expr]
+    while stack:
+        node = stack.pop()
+        if node.is_commutative:
+            continue
+        if node.is_Add or node.is_Mul or node.is_Pow:
+            stack.extend(node.args)
+        elif mode_of(node) is None:
+            return False
+    return True
+
+
+def _tensor_classes():
+    # imported late: the tensors package imports this package's kets
+    from ..tensors.spherical import SphericalTensor, TensorComponent
+    from ..tensors.vectors import VectorComponent, VectorOperator
+    return SphericalTensor, TensorComponent, VectorOperator, VectorComponent
+
+
+def check_reduced(reduced):
+    """``{family: dict with Rational-pair keys, or callable}``, validated; ``{}`` for None.
+
+    The one reader of the ``reduced=`` argument of ``apply``, ``matrix_element``,
+    ``to_matrix`` and ``hamiltonian_matrix``.
+
+    >>> from amalgebra.tensors import SphericalTensor
+    >>> T = SphericalTensor("T", 1, "L")
+    >>> check_reduced({T: {(1, 0): 2}})
+    {T^(1)[L]: {(1, 0): 2}}
+    """
+    if reduced is None:
+        return {}
+    SphericalTensor, _, VectorOperator, _ = _tensor_classes()
+    if not isinstance(reduced, dict):
+        raise OperatorError(f"reduced={reduced!r} must be a dict tensor/vector -> {{(jp, j): value}} "
+                            f"or -> callable(jp, j)")
+    out = {}
+    for family in sorted(reduced, key=str):
+        if not isinstance(family, (SphericalTensor, VectorOperator)):
+            raise OperatorError(f"reduced key={family!r} must be a SphericalTensor or a VectorOperator")
+        values = reduced[family]
+        if callable(values):
+            out[family] = values
+            continue
+        if not isinstance(values, dict):
+            raise OperatorError(f"reduced[{family}]={values!r} must be a dict {{(jp, j): value}} "
+                                f"or a callable(jp, j)")
+        table = {}
+        for pair, value in values.items():
+            if not (isinstance(pair, tuple) and len(pair) == 2):
+                raise OperatorError(f"reduced[{family}] key={pair!r} must be a pair (jp, j)")
+            key = (half_integer(pair[0], "jp", nonnegative=True), half_integer(pair[1], "j", nonnegative=True))
+            table[key] = as_expression(value, f"reduced[{family}][{pair!r}]")
+        out[family] = table
+    return out
 
 
 def reduced_lookup(table, convention):
@@ -279,14 +526,15 @@ def reduced_lookup(table, convention):
             entry = table.get(family)
             if entry is None:
                 if view.kind == "racah" and not (jp.is_integer and j.is_integer):
-                    raise QuantumNumberError(
-                        f"j[{view.label!r}]={j if not j.is_integer else jp} must be an integer l: {view.name} is "
-                        f"the Racah tensor C^{view.rank}, defined on orbital states")
+                    _refuse_racah(view, j if not j.is_integer else jp)
                 hit = _own_reduced(view, jp, j, convention)
-            elif callable(entry):
-                hit = as_expression(entry(jp, j), f"reduced[{family}]({jp}, {j})")
             else:
-                hit = entry.get((jp, j), S.Zero)
+                if callable(entry):
+                    hit = as_expression(entry(jp, j), f"reduced[{family}]({jp}, {j})")
+                else:
+                    hit = entry.get((jp, j), S.Zero)
+                if not hit.is_Atom:
+                    hit = hit.expand()      # amplitudes are kept expanded (the walker relies on it)
             cache[key] = hit
         return hit
 
@@ -319,38 +567,93 @@ def compile_operator(op, labels):
     hit = _COMPILED.get(key)
     if hit is not None:
         return hit
-    extension = claiming_extension(op)
-    if extension is None:
+    if claiming_extension(op) is None:
         algebra, (element,) = kernel_of(op)
         check_labels(algebra, labels, op)
-        terms = [(S.One, form_of_element(algebra, element, labels), ())]
-        families = ()
+        compiled = CompiledOperator(op, labels, (), None, [(S.One, form_of_element(algebra, element, labels), ())])
     else:
-        mixed, (element,) = extension.kernel(op)
-        kernel = mixed.kernel
-        check_labels(kernel, labels, op)
-        families = tuple(f.obj for f in mixed.families)
-        for family in families:
-            if family.label not in labels:
-                raise OperatorError(f"{family} is a tensor under label={family.label!r}, which the state "
-                                    f"must carry to declare the space it acts on; the state carries "
-                                    f"{list(labels)}")
-        terms = []
-        for m, word in sorted(element, key=lambda k: (len(k[1]), k)):
-            form = form_of_element(kernel, element[(m, word)], labels)
-            for factor, atoms in mixed._word_out(m, word):
-                terms.append((factor, form, tuple(atoms)))
-    compiled = CompiledOperator(labels, terms, families)
+        plan, families = _read_tree(op, labels)
+        compiled = CompiledOperator(op, labels, families, plan)
     if len(_COMPILED) >= _COMPILED_MAX:
         _COMPILED.pop(next(iter(_COMPILED)))
     _COMPILED[key] = compiled
     return compiled
 
 
+def _read_tree(op, labels):
+    """``(plan, families)``: every noncommutative node of ``op`` -> how it acts; validates labels and atoms.
+
+    Plan entries: ``("form", ActionForm)`` for an angular-momentum-only node
+    (consecutive such factors of a product are merged into one),
+    ``("atom", view, parts, family, label index)``, ``("add", children,
+    scalar)``, ``("mul", coefficient, factors)``, ``("pow", base, n)``.
+    """
+    _, TensorComponent, _, VectorComponent = _tensor_classes()
+    plan, families = {}, {}
+    stack = [op]
+    while stack:
+        node = stack.pop()
+        if node in plan:
+            continue
+        if kernel_only(node):
+            plan[node] = ("form", action_form(node, labels))
+        elif isinstance(node, (TensorComponent, VectorComponent)):
+            family = atom_family(node)
+            if family.label not in labels:
+                raise OperatorError(f"{family} is a tensor under label={family.label!r}, which the state "
+                                    f"must carry to declare the space it acts on; the state carries "
+                                    f"{list(labels)}")
+            view, parts = _spherical_parts(node)
+            families[family] = None
+            plan[node] = ("atom", view, parts, family, labels.index(family.label))
+        elif node.is_Add:
+            children = tuple(arg for arg in node.args if not arg.is_commutative)
+            plan[node] = ("add", children, expand(Add(*[arg for arg in node.args if arg.is_commutative])))
+            stack.extend(children)
+        elif node.is_Mul:
+            factors, group = [], []
+            for arg in node.args:
+                if arg.is_commutative:
+                    continue
+                if kernel_only(arg):
+                    group.append(arg)
+                    continue
+                if group:
+                    factors.append(Mul(*group))
+                    group = []
+                factors.append(arg)
+            if group:
+                factors.append(Mul(*group))
+            plan[node] = ("mul", expand(Mul(*[arg for arg in node.args if arg.is_commutative])), tuple(factors))
+            stack.extend(factors)
+        elif node.is_Pow:
+            base = operator_power_base(node)      # the shared check of exponents, with its limit
+            plan[node] = ("pow", base, int(node.exp))
+            stack.append(base)
+        else:
+            raise OperatorError(f"expr={node} must be built from angular-momentum, tensor and vector "
+                                f"components; {type(node).__name__} is not a known operator")
+    return plan, tuple(families)
+
+
+def _normal_terms(op, labels):
+    """The mixed normal form of ``op`` as ``[(coefficient, ActionForm of A_W, tensor atoms of W)]``."""
+    mixed, (element,) = claiming_extension(op).kernel(op)
+    kernel = mixed.kernel
+    check_labels(kernel, labels, op)
+    terms = []
+    for m, word in sorted(element, key=lambda k: (len(k[1]), k)):
+        form = form_of_element(kernel, element[(m, word)], labels)
+        for factor, atoms in mixed._word_out(m, word):
+            terms.append((factor, form, tuple(atoms)))
+    return terms
+
+
 def clear_caches():
-    """Empty the cache of compiled operators.
+    """Empty the caches of compiled operators, reduced elements and Wigner-Eckart factors.
 
     >>> clear_caches()
     """
     _COMPILED.clear()
     _own_reduced.cache_clear()
+    _geometric.cache_clear()

@@ -33,10 +33,10 @@ Examples
 >>> p = dict(l1=1, l2=1, s1="1/2", s2="1/2")
 >>> singlet_s = tree_ket(coupling_tree("((l1 l2) L, (s1 s2) S) J", p, L=0, S=0, J=0), 0)
 >>> singlet_s
-|((1_l1 1_l2)0, (1/2_s1 1/2_s2)0)0, 0>
+|((1_l1 1_l2)0_L, (1/2_s1 1/2_s2)0_S)0_J, 0>
 >>> jj = coupling_tree("((l1 s1) j1, (l2 s2) j2) J", p)
 >>> recouple(singlet_s, jj)
-sqrt(3)*|((1_l1 1/2_s1)1/2, (1_l2 1/2_s2)1/2)0, 0>/3 + sqrt(6)*|((1_l1 1/2_s1)3/2, (1_l2 1/2_s2)3/2)0, 0>/3
+sqrt(3)*|((1_l1 1/2_s1)1/2_j1, (1_l2 1/2_s2)1/2_j2)0_J, 0>/3 + sqrt(6)*|((1_l1 1/2_s1)3/2_j1, (1_l2 1/2_s2)3/2_j2)0_J, 0>/3
 >>> inner(singlet_s.dual(), recouple(singlet_s, jj))
 1
 
@@ -178,7 +178,7 @@ class TreeBra(_TreeStateBase):
     >>> from amalgebra.coupling.trees import coupling_tree
     >>> from amalgebra.states.tree_kets import TreeBra
     >>> adjoint(TreeBra(coupling_tree("(a b) J", a=1, b=1, J=2), 1))
-    |(1_a 1_b)2, 1>
+    |(1_a 1_b)2_J, 1>
     """
 
     __slots__ = ()
@@ -218,7 +218,7 @@ def tree_basis(tree):
     >>> from amalgebra.coupling.trees import coupling_tree
     >>> from amalgebra.states.tree_kets import tree_basis
     >>> [str(k) for k in tree_basis(coupling_tree("(a b) J", a="1/2", b="1/2"))]
-    ['|(1/2_a 1/2_b)0, 0>', '|(1/2_a 1/2_b)1, 1>', '|(1/2_a 1/2_b)1, 0>', '|(1/2_a 1/2_b)1, -1>']
+    ['|(1/2_a 1/2_b)0_J, 0>', '|(1/2_a 1/2_b)1_J, 1>', '|(1/2_a 1/2_b)1_J, 0>', '|(1/2_a 1/2_b)1_J, -1>']
     """
     out = []
     for values in tree_assignments(tree):
@@ -248,7 +248,7 @@ def recouple(state, tree):
     >>> from amalgebra.states.tree_kets import recouple
     >>> up_down = product_ket(ket("1/2", "1/2", "a"), ket("1/2", "-1/2", "b"))
     >>> recouple(up_down, coupling_tree("(a b) J", a="1/2", b="1/2"))
-    sqrt(2)*|(1/2_a 1/2_b)0, 0>/2 + sqrt(2)*|(1/2_a 1/2_b)1, 0>/2
+    sqrt(2)*|(1/2_a 1/2_b)0_J, 0>/2 + sqrt(2)*|(1/2_a 1/2_b)1_J, 0>/2
     """
     if not isinstance(tree, CouplingTree):
         raise StateError(f"tree={tree!r} must be a CouplingTree (see coupling_tree)")

@@ -20,7 +20,7 @@ The Wigner-Eckart engine itself (ReducedMatrixElement, wigner_eckart, convention
 
 >>> from amalgebra.tensors import SphericalTensor, decompose
 >>> SphericalTensor("T", 1, "J")[0]
-T^(1)_(0)
+T^(1)[J]_(0)
 """
 
 from . import coupled_schemes, irreducible, mixedform, products, spherical, vectors

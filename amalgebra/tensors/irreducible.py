@@ -443,7 +443,7 @@ def rotation_commutator(generator, expr, labels=None):
     >>> from amalgebra.tensors.irreducible import rotation_commutator
     >>> J, T = AngularMomentum("J"), SphericalTensor("T", 2, "J")
     >>> rotation_commutator(J.minus, T[1]*T[-2])
-    sqrt(6)*T^(2)_(0)*T^(2)_(-2)
+    sqrt(6)*T^(2)[J]_(0)*T^(2)[J]_(-2)
     """
     if not isinstance(generator, AngularMomentumComponent) or generator.component == "squared":
         raise OperatorError(f"generator={generator!r} must be J.x, J.y, J.z, J.plus or J.minus")

@@ -64,12 +64,12 @@ Examples
 >>> from amalgebra.tensors import SphericalTensor, VectorOperator
 >>> L, r = AngularMomentum("L"), VectorOperator("r", "L")
 >>> commutator(L.plus, r.z)                      # Sakurai (3.10.x): [L+, z] = -(x + i y)
--r.x - I*r.y
+-r[L].x - I*r[L].y
 >>> canonical(r.z*L.plus)
-L.plus*r.z + r.x + I*r.y
+L.plus*r[L].z + r[L].x + I*r[L].y
 >>> T = SphericalTensor("T", 1, "L")
 >>> canonical(T[0]*L.plus)                       # T0 L+ = L+ T0 - sqrt(2) T1
-L.plus*T^(1)_(0) - sqrt(2)*T^(1)_(1)
+L.plus*T^(1)[L]_(0) - sqrt(2)*T^(1)[L]_(1)
 
 An identity: :math:`[L^2, T^k_q]` from the formula above, for k = 1, q = 0:
 
@@ -246,7 +246,7 @@ def mixed_kernel(*exprs):
     >>> J, V = AngularMomentum("J"), VectorOperator("V", "J")
     >>> algebra, (a, b) = mixed_kernel(J.z, V.x)
     >>> algebra.to_expr(algebra.sub(algebra.mul(a, b), algebra.mul(b, a)))   # [Jz, Vx] = i Vy
-    I*V.y
+    I*V[J].y
 
     Parameters
     ==========

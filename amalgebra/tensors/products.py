@@ -204,7 +204,7 @@ def tensor_product(a, b, k):
     >>> from amalgebra.tensors.products import tensor_product
     >>> A, B = SphericalTensor("A", 1, "L"), SphericalTensor("B", 1, "S")
     >>> tensor_product(A, B, 2)[2]
-    A^(1)_(1)*B^(1)_(1)
+    A^(1)[L]_(1)*B^(1)[S]_(1)
     """
     a, b = spherical_components(a, "a"), spherical_components(b, "b")
     k = half_integer(k, "k", nonnegative=True)

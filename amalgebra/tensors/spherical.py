@@ -49,10 +49,10 @@ Examples
 >>> from amalgebra.tensors.spherical import SphericalTensor
 >>> T = SphericalTensor("T", 2, "J")
 >>> T[1], adjoint(T[1])
-(T^(2)_(1), -T^(2)_(-1))
+(T^(2)[J]_(1), -T^(2)[J]_(-1))
 >>> J = AngularMomentum("J")
 >>> T.commutator_with(J.plus, 1)
-2*T^(2)_(2)
+2*T^(2)[J]_(2)
 >>> T.matrix_element(1, 1, 0, 1, 1)
 sqrt(30)*<1||T^(2)||1>/30
 
@@ -124,7 +124,7 @@ class SphericalTensor(NotationHooks, Basic):
     >>> from amalgebra.tensors.spherical import SphericalTensor
     >>> T = SphericalTensor("T", 1, "L")
     >>> T.rank, T.label, T.components
-    (1, 'L', (T^(1)_(1), T^(1)_(0), T^(1)_(-1)))
+    (1, 'L', (T^(1)[L]_(1), T^(1)[L]_(0), T^(1)[L]_(-1)))
     >>> T.func(*T.args) == T
     True
 
@@ -271,7 +271,7 @@ class TensorComponent(NotationHooks, Expr):
     >>> from amalgebra.tensors.spherical import SphericalTensor
     >>> c = SphericalTensor("Q", 2, "I")[-2]
     >>> c, latex(c), c.q, c.rank
-    (Q^(2)_(-2), '{Q^{(2)}_{-2}}', -2, 2)
+    (Q^(2)[I]_(-2), '{Q^{(2)}_{-2}}', -2, 2)
     """
 
     __slots__ = ()

@@ -89,7 +89,7 @@ class CoupledTensorOperator(NotationHooks, Basic):
     >>> from amalgebra.tensors.tree_elements import CoupledTensorOperator
     >>> X = CoupledTensorOperator(SphericalTensor("T", 1, "a"), SphericalTensor("U", 1, "b"), 2)
     >>> X, X.rank
-    ([T^(1) x U^(1)]^(2), 2)
+    ([T^(1)[a] x U^(1)[b]]^(2), 2)
     """
 
     __slots__ = ()

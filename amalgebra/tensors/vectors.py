@@ -33,9 +33,9 @@ Examples
 >>> r = VectorOperator("r", "L")
 >>> L = AngularMomentum("L")
 >>> vector_commutator(L.x, r.y)          # [Lx, y] = i z
-I*r.z
+I*r[L].z
 >>> vector_commutator(L.plus, r.z)       # [L+, z] = -(x + i y)
--r.x - I*r.y
+-r[L].x - I*r[L].y
 
 An identity, :math:`[L_z, V_{+1}] = V_{+1}`:
 
@@ -75,7 +75,7 @@ class VectorOperator(NotationHooks, Basic):
     >>> from amalgebra.tensors.vectors import VectorOperator
     >>> d = VectorOperator("d", "J")
     >>> d.vector, d.label
-    ((d.x, d.y, d.z), 'J')
+    ((d[J].x, d[J].y, d[J].z), 'J')
     >>> d.func(*d.args) == d
     True
 
@@ -137,7 +137,7 @@ class VectorComponent(NotationHooks, Expr):
     >>> from amalgebra.tensors.vectors import VectorOperator
     >>> r = VectorOperator("r", "L")
     >>> adjoint(r.x), r.x.is_hermitian
-    (r.x, True)
+    (r[L].x, True)
     """
 
     __slots__ = ()
@@ -199,7 +199,7 @@ def vector_commutator(generator, component):
     >>> from amalgebra.tensors.vectors import VectorOperator, vector_commutator
     >>> V, J = VectorOperator("V", "J"), AngularMomentum("J")
     >>> vector_commutator(J.z, V.x)
-    I*V.y
+    I*V[J].y
     """
     if not isinstance(generator, AngularMomentumComponent):
         raise OperatorError(f"generator={generator!r} must be an angular-momentum component")

@@ -84,6 +84,7 @@ __all__ = [
     "check_convention",
     "wigner_eckart",
     "wigner_eckart_factor",
+    "wigner_eckart_factor_float",
     "reduced_from_element",
     "element_table",
     "reduced_from_table",
@@ -214,6 +215,23 @@ def wigner_eckart_factor(jp, mp, k, q, j, m, convention="edmonds"):
     if convention == "cg":
         return cg(j, m, k, q, jp, mp)
     return _sign(jp - mp) * threej(jp, k, j, -mp, q, m)
+
+
+def wigner_eckart_factor_float(jp, mp, k, q, j, m, convention="edmonds"):
+    """Float twin of :func:`wigner_eckart_factor` (numeric arguments): the correctly rounded 3j or CG.
+
+    The numeric matrices of :mod:`amalgebra.matrices` take their
+    Wigner-Eckart factors from here, the exact ones from
+    :func:`wigner_eckart_factor`: the same formula, written in this module only.
+
+    >>> abs(wigner_eckart_factor_float(1, 0, 1, 0, 0, 0) - 3 ** -0.5) < 1e-15
+    True
+    """
+    from ..coupling import cg_float, threej_float
+
+    if convention == "cg":
+        return cg_float(j, m, k, q, jp, mp)
+    return (-1.0) ** int(jp - mp) * threej_float(jp, k, j, -mp, q, m)
 
 
 def wigner_eckart(jp, mp, k, q, j, m, reduced=None, *, name="T", convention="edmonds"):

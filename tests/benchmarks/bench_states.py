@@ -12,14 +12,25 @@ Run: ``python tests/benchmarks/bench_states.py [--repeat N] [--no-baseline]``
      at j = 50; both values must agree.
 2. The exact 40 x 40 Hamiltonian A I.J + (g_J mu_B J_z + g_I mu_B I_z) B for I = 9/2, J = 3/2 in the
    uncoupled basis, built and split into conserved-M blocks (cold).
+3. Explicit matrices of expressions with tensor and vector components (issue 11: one engine), CPU time
+   of each case, cold caches: the random-words family of tests/tensors/test_tensor_matrices.py (40 seeded
+   sums of words in L, T^1, r and S_z on L = 0+1+2 (x) S = 1/2) exact, float and sparse, and a
+   quadrupole + hyperfine Hamiltonian A I.J + B [U^2(I) x Q^2(J)]^0 on I = 3/2 (x) J = 1/2+3/2+5/2
+   (symbolic reduced elements) through to_matrix (exact, float) and hamiltonian_matrix.
+   ``--old TREE`` (e.g. the HEAD tree unpacked by ``git archive HEAD | tar -x -C /tmp/A_old``) runs the
+   same cases in subprocesses with ``PYTHONPATH=TREE`` and with this checkout, interleaved, and prints
+   before / after and the ratio (minimum CPU time over the runs).  ``--tensor-only`` skips 1-2.
 
 Prints one line per figure and the ratios the project asks for.
 """
 
 import argparse
 import importlib.util
+import json
 import os
+import pathlib
 import statistics
+import subprocess
 import sys
 import time
 
@@ -85,7 +96,15 @@ def main(argv=None):
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--repeat", type=int, default=7)
     parser.add_argument("--no-baseline", action="store_true")
+    parser.add_argument("--old", metavar="TREE", help="a source tree of the previous version to compare with")
+    parser.add_argument("--tensor-only", action="store_true", help="only the tensor-matrix figures (part 3)")
+    parser.add_argument("--cases-json", action="store_true", help=argparse.SUPPRESS)   # subprocess mode
     args = parser.parse_args(argv)
+    if args.cases_json:
+        print(json.dumps(tensor_case_times(args.repeat)))
+        return 0
+    if args.tensor_only:
+        return tensor_figures(args)
 
     J = AngularMomentum("J")
     op = (J.x ** 2 - J.y ** 2 + J.z * J.x) ** 4
@@ -213,6 +232,119 @@ def main(argv=None):
     t_cpl = median_time(build_coupled, max(1, args.repeat // 3))
     print(f"same Hamiltonian in the coupled |(I J) F M> basis (CG change of basis, exact): {t_cpl:.3f} s; "
           f"conserved={result['hc'].conserved}")
+    return tensor_figures(args)
+
+
+# ------------------------------------------------------------- 3. matrices with tensor components
+
+def _random_words(count=40, seed=11):
+    """Seeded sums of words like those of test_random_words_match_numpy_products (same pool and sizes)."""
+    import random
+
+    from sympy import Add, Mul
+
+    from amalgebra.tensors import SphericalTensor, VectorOperator
+
+    L, S_ = AngularMomentum("L"), AngularMomentum("S")
+    T, r = SphericalTensor("T", 1, "L"), VectorOperator("r", "L")
+    pool = [L.plus, L.minus, L.z, L.x, T[1], T[0], T[-1], r.x, r.y, r.z, S_.z]
+    rng = random.Random(seed)
+    exprs = []
+    for _ in range(count):
+        terms = [rng.randint(-3, 3) * Mul(*[rng.choice(pool) for _ in range(rng.randint(1, 4))])
+                 for _ in range(rng.randint(1, 4))]
+        exprs.append(Add(*terms))
+    red_t = {(0, 1): Rational(2), (1, 0): Rational(-1, 2), (1, 1): Rational(3, 4), (1, 2): Rational(5, 3),
+             (2, 1): Rational(-2), (2, 2): Rational(1, 5)}
+    red_r = {(0, 1): Rational(1), (1, 0): Rational(-1), (1, 1): Rational(1, 2), (2, 1): Rational(3, 2),
+             (1, 2): Rational(-3, 2), (2, 2): Rational(-1, 3)}
+    return exprs, {"L": [0, 1, 2], "S": "1/2"}, {T: red_t, r: red_r}
+
+
+def _quadrupole_hyperfine():
+    """A I.J + B sum_q (-1)^q U^2_q(I) Q^2_-q(J) on I = 3/2 (x) J = 1/2 + 3/2 + 5/2 (invented scenario)."""
+    from sympy import Add
+
+    from amalgebra.tensors import SphericalTensor
+
+    A, B = symbols("A B", real=True)
+    Iop, Jop = AngularMomentum("I"), AngularMomentum("J")
+    U, Q = SphericalTensor("U", 2, "I"), SphericalTensor("Q", 2, "J")
+    ham = A * dot(Iop, Jop) + B * Add(*[(-1) ** q * U[q] * Q[-q] for q in range(-2, 3)])
+    return ham, {"I": Rational(3, 2), "J": [Rational(1, 2), Rational(3, 2), Rational(5, 2)]}
+
+
+def _cold_all():
+    """Clear SymPy's cache and every cache of the engine the imported tree has."""
+    clear_cache()
+    for module, name in (("amalgebra.states.actionform", "clear_caches"), ("amalgebra.states.engine", "clear_caches"),
+                         ("amalgebra.states.coupled", "clear_caches"), ("amalgebra.tensors.mixedform", "clear_caches")):
+        try:
+            fn = getattr(importlib.import_module(module), name)
+        except (ImportError, AttributeError):
+            continue
+        fn()
+
+
+def tensor_case_times(repeat):
+    """``{case: minimum CPU seconds}`` over ``repeat`` cold runs (the figures of part 3)."""
+    from amalgebra.matrices.explicit import to_matrix
+
+    exprs, space, red = _random_words()
+    ham, hspace = _quadrupole_hyperfine()
+    point = {s: Rational(1, 3) for s in ham.free_symbols}
+    cases = {
+        "random words (40 sums), exact to_matrix": lambda: [to_matrix(e, space, reduced=red) for e in exprs],
+        "random words (40 sums), float to_matrix": lambda: [to_matrix(e, space, reduced=red, kind="float")
+                                                           for e in exprs],
+        "random words (40 sums), sparse to_matrix": lambda: [to_matrix(e, space, reduced=red, kind="sparse")
+                                                            for e in exprs],
+        "quadrupole+hyperfine 48x48 direct sum, exact to_matrix": lambda: to_matrix(ham, hspace),
+        "quadrupole+hyperfine 48x48 direct sum, hamiltonian_matrix": lambda: hamiltonian_matrix(ham, hspace),
+        "quadrupole+hyperfine 48x48 direct sum, float to_matrix (reduced=1)": lambda: to_matrix(
+            ham, hspace, kind="float", subs=point,
+            reduced={f: (lambda jp, j: 1) for f in _families(ham)}),
+    }
+    out = {}
+    for name, fn in cases.items():
+        fn()                        # imports and first-use set-up are not part of the figure
+        times = []
+        for _ in range(repeat):
+            _cold_all()
+            t0 = time.process_time()
+            fn()
+            times.append(time.process_time() - t0)
+        out[name] = min(times)
+    return out
+
+
+def _families(expr):
+    from amalgebra.tensors.spherical import TensorComponent
+    return sorted({a.tensor for a in expr.atoms(TensorComponent)}, key=str)
+
+
+def tensor_figures(args):
+    repeat = max(2, args.repeat // 2)
+    if not args.old:
+        for name, t in tensor_case_times(repeat).items():
+            print(f"{name}: {t * 1e3:.0f} ms CPU (min of {repeat}, cold)")
+        return 0
+    here = str(pathlib.Path(__file__).resolve().parents[2])
+    runs = {"before": [], "after": []}
+    for _ in range(2):          # interleaved: old, new, old, new (the box is shared)
+        for tag, tree in (("before", args.old), ("after", here)):
+            env = dict(os.environ, PYTHONPATH=tree)
+            done = subprocess.run([sys.executable, __file__, "--cases-json", "--repeat", str(repeat)], env=env,
+                                  capture_output=True, text=True, check=True, cwd="/")
+            runs[tag].append(json.loads(done.stdout.strip().splitlines()[-1]))
+    print(f"explicit matrices with tensor components, CPU ms (min over 2 x {repeat} cold runs), before = {args.old}:")
+    worst = 0.0
+    for name in runs["after"][0]:
+        before = min(r[name] for r in runs["before"])
+        after = min(r[name] for r in runs["after"])
+        worst = max(worst, after / before)
+        print(f"  {name}: before {before * 1e3:.0f}, after {after * 1e3:.0f}, after/before {after / before:.2f}")
+    print(f"worst after/before ratio {worst:.2f} (target <= 1: no slowdown)")
     return 0
 
 

@@ -53,6 +53,18 @@ FAMILIES = [
     ("vector components", r.x * r.y + L.z * r.z, {"L": [0, 1, 2, 3]}),
     ("symbolic coefficient, tensor product", a * T[0] * T[1] + L.z * S.plus, {"L": [0, 1, 2, 3], "S": [h]}),
 ]
+U = SphericalTensor("U", 1, "S")
+REDUCED[U] = red_t
+ORACLE_REDUCED[U] = red_t
+# families whose matrices are checked on the whole space (exact, float, sparse, hamiltonian_matrix)
+MATRIX_FAMILIES = FAMILIES + [
+    ("half-integer multiplets of different j", U[1] * S.z - 2 * U[0] + S.plus * U[-1], {"S": [h, 3 * h, 5 * h]}),
+    ("direct sum times a second label", Q[1] * L.minus * S.z + T[0] * S.x + dot(L, S),
+     {"L": [0, 1, 2], "S": [h]}),
+    ("long words with shared suffixes", (T[1] + L.z) ** 3 * r.x - a * T[0] * r.x + L.plus * T[-1] * r.x,
+     {"L": [0, 1, 2]}),
+    ("rank 2 times powers of J", Q[2] * L.minus ** 2 + a * L.x ** 3 * Q[0], {"L": [1, 2]}),
+]
 
 
 def _oracle(op, space, subs=None):
@@ -94,6 +106,107 @@ def test_to_matrix_and_hamiltonian_matrix_against_oracle(name, op, space):
     m2 = hamiltonian_matrix(op, space, reduced=REDUCED).matrix.subs(a, Rational(3, 7))
     assert m1 == m2
     assert np.allclose(np.array(m1.evalf(), dtype=complex), ref, atol=1e-10)
+
+
+@pytest.mark.parametrize("name, op, space", MATRIX_FAMILIES, ids=[f[0] for f in MATRIX_FAMILIES])
+def test_every_kind_of_matrix_against_oracle(name, op, space):
+    # oracle: amalgebra.testing.reference.evaluate_on_space (numpy products of textbook atom matrices,
+    # Edmonds 1957 eq. 5.4.1 with Racah's 3j formula); exact, float, sparse and hamiltonian_matrix
+    point = {a: Rational(3, 7)}
+    ref = _oracle(op, space, point)
+    exact = to_matrix(op, space, reduced=REDUCED)
+    assert exact == hamiltonian_matrix(op, space, reduced=REDUCED).matrix
+    assert np.allclose(np.array(exact.subs(point).evalf(), dtype=complex), ref, atol=1e-10)
+    dense = to_matrix(op, space, reduced=REDUCED, kind="float", subs=point)
+    sparse = to_matrix(op, space, reduced=REDUCED, kind="sparse", subs=point)
+    assert np.allclose(dense, ref, atol=1e-10) and np.allclose(sparse.toarray(), ref, atol=1e-10)
+    assert np.abs(ref).max() > 0.1
+    # matrix_element between kets is not truncated to the space: compare with the oracle on a space
+    # holding every j a word of up to four components reaches (P O P differs from O at the top)
+    big = {lab: js if len(js) == 1 else [Rational(int(2 * js[0]) % 2, 2) + n for n in range(int(max(js)) + 5)]
+           for lab, js in space.items()}
+    labels, states = space_states(space)
+    _, big_states = space_states(big)
+    big_ref = _oracle(op, big, point)
+    basis = product_basis(space)
+    for col in range(0, len(states), 3):
+        for row in range(len(states)):
+            value = matrix_element(basis[row], op, basis[col], reduced=REDUCED)
+            want = big_ref[big_states.index(states[row]), big_states.index(states[col])]
+            assert abs(complex(value.subs(point)) - want) < 1e-9, (row, col)
+
+
+def test_tree_and_normal_form_agree_on_symbolic_and_numeric_kets():
+    # the engine's two readings of a tensor operator (tree on numeric kets, mixed normal form on
+    # symbolic ones) at numeric points; oracle: the numpy matrix on L = 0+...+5 (holds every j reached)
+    j, m = Symbol("j", integer=True, nonnegative=True), Symbol("m", integer=True)
+    op = T[1] * L.z * T[-1] + L.plus * r.z
+    space = {"L": [0, 1, 2, 3, 4, 5]}
+    labels, states = space_states(space)
+    ref = _oracle(op, space)
+    image = apply(op, ket(j, m, "L"), reduced=REDUCED)
+    for jv, mv in ((2, 0), (2, -1), (3, 1)):
+        numeric = apply(op, ket(jv, mv, "L"), reduced=REDUCED)
+        col = states.index(((float(jv), float(mv)),))
+        for row, ((jp, mp),) in enumerate(states):
+            b = bra(Rational(jp), Rational(mp), "L")
+            got = complex(inner(b, numeric))
+            closed = complex(inner(b, image).subs({j: jv, m: mv}))
+            assert abs(got - ref[row, col]) < 1e-10 and abs(closed - ref[row, col]) < 1e-10
+
+
+def test_one_space_reader_same_rules_for_every_route():
+    # one reader (states.basis.read_space): the one label rule and the same messages; to_matrix keeps
+    # OperatorError, bases StateError (the check_label convention)
+    for bad, match in (({"_x": 1}, "identifier"), ({}, "non-empty dict"), ([("L", 1)], "non-empty dict"),
+                       ({1: 1}, "str")):
+        with pytest.raises(OperatorError, match=match):
+            to_matrix(L.z, bad)
+        with pytest.raises(StateError, match=match):
+            product_basis(bad)
+    from amalgebra.errors import QuantumNumberError
+    for bad in ({"L": [1, 1]}, {"L": []}, {"L": "1/3"}):
+        with pytest.raises(QuantumNumberError):
+            to_matrix(L.z, bad)
+        with pytest.raises(QuantumNumberError):
+            hamiltonian_matrix(L.z, bad)
+
+
+def test_vectorised_ladder_factor_is_the_one_factor():
+    # amalgebra._exact.ladder_float_array against the scalar ladder_radicand (same module) and the
+    # numpy oracle's J+ matrix (Sakurai 1994 eq. 3.5.41, from memory)
+    from amalgebra._exact import ladder_float_array, ladder_radicand
+    from amalgebra.testing.reference import component_matrices
+
+    for twice_j in range(0, 8):
+        jv = twice_j / 2
+        ms = jv - np.arange(twice_j + 1)
+        for d in (-3, -2, -1, 1, 2, 3):
+            got = ladder_float_array(jv, ms, d)
+            want = [float(ladder_radicand(Rational(twice_j, 2), Rational(int(2 * mv), 2), d)) ** 0.5 for mv in ms]
+            assert np.allclose(got, want, atol=1e-12)
+        plus = component_matrices(jv)["plus"]
+        assert np.allclose(ladder_float_array(jv, ms[1:], 1), np.diag(plus, 1).real)
+
+
+def test_doctest_collection_imports_each_module_once(tmp_path):
+    # pytest's --import-mode=importlib executed amalgebra/states/basis.py twice when its doctests were
+    # collected first (parent package imported, then the file run again): two Basis classes.  The root
+    # conftest imports package modules by name first; this runs that collection order in a subprocess.
+    import pathlib
+    import subprocess
+    import sys
+
+    root = pathlib.Path(__file__).resolve().parents[2]
+    probe = tmp_path / "test_probe.py"
+    probe.write_text("import sys\n\ndef test_one_class():\n    import amalgebra.states\n"
+                     "    assert sys.modules['amalgebra.states.basis'].Basis is amalgebra.states.Basis\n")
+    run = subprocess.run([sys.executable, "-m", "pytest", "-q", "-p", "no:cacheprovider", "-p", "no:xdist",
+                          "-c", str(root / "pyproject.toml"), "--rootdir", str(root),
+                          str(root / "amalgebra" / "states" / "basis.py"), str(probe)],
+                         cwd=root, capture_output=True, text=True)
+    assert run.returncode == 0, run.stdout[-2000:]
+    assert "passed" in run.stdout
 
 
 def test_apply_on_linear_combination_against_oracle():

@@ -22,7 +22,7 @@ def test_family_args_pickle_printing():
     assert T.func(*T.args) == T and pickle.loads(pickle.dumps(T)) == T
     c = T[-1]
     assert c.func(*c.args) == c and pickle.loads(pickle.dumps(c)) == c
-    assert str(c) == "T^(2)_(-1)" and latex(c) == "{T^{(2)}_{-1}}"
+    assert str(c) == "T^(2)[J]_(-1)" and latex(c) == "{T^{(2)}_{-1}}"
     assert str(T) == "T^(2)[J]"
     assert T.components == (T[2], T[1], T[0], T[-1], T[-2])
     assert not c.is_commutative

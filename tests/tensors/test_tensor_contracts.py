@@ -57,9 +57,9 @@ def test_args_contract(cls):
     (ReducedMatrixElement("T", 2, 1, 0), "<1||T^(2)||0>", r"\langle 1 \| T^{(2)} \| 0 \rangle"),
     (ReducedMatrixElement("T", 1, 1, 0, "cg"), "<1||T^(1)||0>_cg",
      r"\langle 1 \| T^{(1)} \| 0 \rangle_{\mathrm{CG}}"),
-    (SphericalTensor("T", 2, "J")[1], "T^(2)_(1)", "{T^{(2)}_{1}}"),
-    (SphericalTensor("T", 2, "J")[1] ** 2, "T^(2)_(1)**2", "{T^{(2)}_{1}}^{2}"),
-    (VectorOperator("r", "L").x, "r.x", "r_{x}"),
+    (SphericalTensor("T", 2, "J")[1], "T^(2)[J]_(1)", "{T^{(2)}_{1}}"),
+    (SphericalTensor("T", 2, "J")[1] ** 2, "T^(2)[J]_(1)**2", "{T^{(2)}_{1}}^{2}"),
+    (VectorOperator("r", "L").x, "r[L].x", "r_{x}"),
 ])
 def test_printing(obj, text, tex):
     assert sstr(obj) == text

@@ -19,7 +19,7 @@ def test_args_pickle_printing():
     V = VectorOperator("d", "J")
     assert V.func(*V.args) == V and pickle.loads(pickle.dumps(V)) == V
     assert V.x.func(*V.x.args) == V.x and pickle.loads(pickle.dumps(V.x)) == V.x
-    assert str(V.x) == "d.x" and str(V) == "VectorOperator('d', 'J')"
+    assert str(V.x) == "d[J].x" and str(V) == "VectorOperator('d', 'J')"
     assert adjoint(V.y) == V.y
     W = VectorOperator("a", "J", hermitian=False)
     assert adjoint(W.x) != W.x
