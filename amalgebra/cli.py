@@ -198,13 +198,13 @@ def _build_pdf(tex_path):
     else:
         return None
     # latexmk reruns by itself; pdflatex reruns until the log stops asking ("Rerun to get
-    # cross-references right"), at most 4 runs in all
+    # cross-references right", longtable's "Rerun LaTeX"), at most 4 runs in all
     for _run in range(1 if cmd[0] == "latexmk" else 4):
         done = subprocess.run(cmd, cwd=tex_path.parent, capture_output=True, text=True, check=False)
         if done.returncode != 0:
             tail = "\n".join(done.stdout.splitlines()[-15:])
             raise RuntimeError(f"{cmd[0]} failed on {tex_path.name}:\n{tail}")
-        if "Rerun to get" not in _read_log(tex_path.with_suffix(".log")):
+        if "Rerun" not in _read_log(tex_path.with_suffix(".log")):
             break
     return tex_path.with_suffix(".pdf")
 
@@ -221,6 +221,12 @@ def _cmd_report(args):
     from amalgebra.derivations.latex import report_latex
     from amalgebra.derivations.runner import run_folder
 
+    if args.output not in (None, "-") and Path(args.output).suffix.lower() == ".pdf":
+        # -o report.pdf: the LaTeX source goes beside it, under the same name
+        if args.no_pdf:
+            raise _UsageError(f"output={args.output!r} is a PDF, but --no-pdf was given: "
+                              "name the LaTeX file instead (e.g. report.tex)")
+        args.output = str(Path(args.output).with_suffix(".tex"))
     if args.output not in (None, "-"):
         # fail before the (long) run when the output file cannot be placed at all
         parent = Path(args.output).parent
@@ -485,7 +491,9 @@ def _table_threej(args):
                     f"table threej {j1} {j2} {j3} has up to (2 j1 + 1)(2 j2 + 1) symbols")
     except LimitError as exc:
         raise _UsageError(str(exc)) from None
-    print(f"(j1 j2 j3; m1 m2 m3) for j1={j1}, j2={j2}, j3={j3}, m3 = -m1 - m2 (Condon-Shortley)")
+    # with --latex, the heading (which names the phase convention) is a TeX comment line
+    print(f"{'% ' if args.latex else ''}(j1 j2 j3; m1 m2 m3) for j1={j1}, j2={j2}, j3={j3}, m3 = -m1 - m2 "
+          "(Condon-Shortley)")
     m1 = j1
     while m1 >= -j1:
         m2 = j2
@@ -494,7 +502,8 @@ def _table_threej(args):
             if abs(m3) <= j3 and (j3 - m3).is_integer:
                 value = threej(j1, j2, j3, m1, m2, m3)
                 if value != 0:
-                    print(f"  m1={m1} m2={m2} m3={m3}: {value}")
+                    _print_value(args, f"  m1={m1} m2={m2} m3={m3}: ", value,
+                                 _symbol_latex("Coupling3j", [j1, j2, j3, m1, m2, m3]))
             m2 -= 1
         m1 -= 1
     return EXIT_OK
@@ -580,7 +589,8 @@ def build_parser():
                                    "document; with -o FILE.tex also build a PDF when latexmk "
                                    "or pdflatex is on PATH.")
     folder_args(p, only=False)
-    p.add_argument("-o", "--output", metavar="FILE.tex", help="output file (default: stdout)")
+    p.add_argument("-o", "--output", metavar="FILE.tex",
+                   help="output file (default: stdout); FILE.pdf writes FILE.tex beside it and builds the PDF")
     p.add_argument("--title", default="Derivations", help="document heading")
     p.add_argument("--no-pdf", action="store_true", help="do not run pdflatex/latexmk")
     p.set_defaults(handler=_cmd_report)

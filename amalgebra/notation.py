@@ -35,31 +35,90 @@ are refused by the reader with a :class:`~amalgebra.errors.ParseError` (``T^(2)_
 ``[T^(2) x U^(1)]^(2)``, a ket coupled in a non-chain tree without names), except where the
 old text is a complete form of another object (``r.z``, ``|(1_a 1/2_b)3/2, 1/2>``).
 
-The notation table (str / LaTeX)::
+The notation table (each str reads back with :func:`amalgebra.parsing.parse` to an object
+that prints the LaTeX beside it; ``tests/test_katex.py`` checks both and renders the LaTeX):
 
-    ========================  =================================  ==========================================================
-    object                    str                                LaTeX
-    ========================  =================================  ==========================================================
-    ``AngularMomentum("J")``  ``AngularMomentum('J')``           ``\mathbf{J}``
-    ``J.z``, ``J.plus``       ``J.z``, ``J.plus``                ``J_{z}``, ``J_{+}``
-    ``J.squared``             ``J.squared``                      ``J^{2}`` (``\left(J^{2}\right)^{3}`` under a power)
-    ``Ket(1, 0, "S")``        ``|1, 0>_S``                       ``{\left|1, 0\right\rangle}_{S}``
-    ``Bra(1, 0, "S")``        ``<1, 0|_S``                       ``{\left\langle 1, 0\right|}_{S}``
-    coupled ket               ``|(1_A 1_B)2, 0>``                ``\left|\left(1_{A} 1_{B}\right) 2, 0\right\rangle``
-    ``a.create``              ``a.create``                       ``{a^{\dagger}}``
-    Fock ket                  ``|2, 1>_(a,b)``                   ``{\left|2, 1\right\rangle}_{a,b}``
-    D-matrix element          ``D^{1}_{1,0}(a, b, c)``           ``D^{1}_{1,0}\left(a,b,c\right)``
-    reduced matrix element    ``<1||T^(1)||1>``                  ``\langle 1 \| T^{(1)} \| 1 \rangle``
-    spherical tensor          ``T^(1)[J]``                       ``T^{(1)}``
-    tensor component          ``T^(1)[J]_(0)``                   ``{T^{(1)}_{0}}``
-    vector component          ``r[L].z``                         ``r_{z}``
-    coupled tensor operator   ``[T^(1)[a] x J]^(1)``             ``\left[T^{(1)} \times \mathbf{J}\right]^{(1)}``
-    tree ket                  ``|(1_a 1_b)2_J, 0>``              ``\left|\left(1_{a}\, 1_{b}\right) 2_{J}, 0\right\rangle``
-    CG symbol                 ``<1, 0; 1, 0|2, 0>``              ``\left\langle 1, 0; 1, 0 \middle| 2, 0 \right\rangle``
-    3j symbol                 ``3j(1, 1, 2; 0, 0, 0)``           ``\begin{pmatrix} 1 & 1 & 2 \\ 0 & 0 & 0 \end{pmatrix}``
-    6j symbol                 ``6j{1, 1, 1; 1, 1, 1}``           ``\begin{Bmatrix}`` 2 x 3 ``\end{Bmatrix}``
-    9j symbol                 ``9j{a, b, c; d, e, f; g, h, i}``  ``\begin{Bmatrix}`` 3 x 3 ``\end{Bmatrix}``
-    ========================  =================================  ==========================================================
+.. list-table::
+   :header-rows: 1
+
+   * - object
+     - str
+     - LaTeX
+   * - the angular momentum ``J``
+     - ``AngularMomentum('J')``
+     - ``\mathbf{J}``
+   * - a component
+     - ``J.z``
+     - ``J_{z}``
+   * - a ladder operator
+     - ``J.plus``
+     - ``J_{+}``
+   * - the Casimir (no parentheses alone)
+     - ``J.squared``
+     - ``J^{2}``
+   * - the Casimir under a power
+     - ``(J.squared)**3``
+     - ``\left(J^{2}\right)^{3}``
+   * - ket
+     - ``|1, 0>_S``
+     - ``{\left|1, 0\right\rangle}_{S}``
+   * - bra
+     - ``<1, 0|_S``
+     - ``{\left\langle 1, 0\right|}_{S}``
+   * - product ket
+     - ``|1, 0>_L|1/2, 1/2>_S``
+     - ``{\left|1, 0\right\rangle}_{L} {\left|\frac{1}{2}, \frac{1}{2}\right\rangle}_{S}``
+   * - coupled ket
+     - ``|(1_A 1_B)2, 0>``
+     - ``\left|\left(1_{A} 1_{B}\right) 2, 0\right\rangle``
+   * - tree ket (every momentum named)
+     - ``|(1_a 1_b)2_J, 0>``
+     - ``\left|\left(1_{a}\, 1_{b}\right) 2_{J}, 0\right\rangle``
+   * - boson creation operator
+     - ``a.create``
+     - ``{a^{\dagger}}``
+   * - Fock ket
+     - ``|2, 1>_(a,b)``
+     - ``{\left|2, 1\right\rangle}_{a,b}``
+   * - D-matrix element
+     - ``D^{1}_{1,0}(a, b, c)``
+     - ``D^{1}_{1,0}\left(a,b,c\right)``
+   * - reduced matrix element
+     - ``<1||T^(1)||1>``
+     - ``\langle 1 \| T^{(1)} \| 1 \rangle``
+   * - the same, CG normalisation
+     - ``<1||T^(1)||1>_cg``
+     - ``\langle 1 \| T^{(1)} \| 1 \rangle_{\mathrm{CG}}``
+   * - spherical tensor
+     - ``T^(1)[J]``
+     - ``T^{(1)}``
+   * - tensor component
+     - ``T^(1)[J]_(0)``
+     - ``{T^{(1)}_{0}}``
+   * - Racah tensor component
+     - ``C^(1)[L, racah]_(0)``
+     - ``{C^{(1)}_{0}}``
+   * - vector component
+     - ``r[L].z``
+     - ``r_{z}``
+   * - non-Hermitian vector component
+     - ``p[L, general].x``
+     - ``p_{x}``
+   * - coupled tensor operator
+     - ``[T^(1)[a] x J]^(1)``
+     - ``\left[T^{(1)} \times \mathbf{J}\right]^{(1)}``
+   * - CG symbol
+     - ``<1, 0; 1, 0|2, 0>``
+     - ``\left\langle 1, 0; 1, 0 \middle| 2, 0 \right\rangle``
+   * - 3j symbol
+     - ``3j(1, 1, 2; 0, 0, 0)``
+     - ``\begin{pmatrix} 1 & 1 & 2 \\ 0 & 0 & 0 \end{pmatrix}``
+   * - 6j symbol
+     - ``6j{1, 1, 1; 1, 1, 1}``
+     - ``\begin{Bmatrix} 1 & 1 & 1 \\ 1 & 1 & 1 \end{Bmatrix}``
+   * - 9j symbol
+     - ``9j{a, b, c; d, e, f; g, h, i}``
+     - ``\begin{Bmatrix} a & b & c \\ d & e & f \\ g & h & i \end{Bmatrix}``
 
 Examples
 ========
@@ -220,8 +279,21 @@ def angular_momentum_str(printer, obj):
     return f"AngularMomentum({obj.label!r})"
 
 
+def _bold_latex(label):
+    r"""A vector's name or an angular momentum's label in bold, trailing digits a subscript.
+
+    ``\mathbf`` is upright already, so a longer name is not wrapped in ``\mathrm`` (which
+    would undo the bold face); a label with trailing digits is braced, as in :func:`label_latex`.
+
+    >>> _bold_latex("J"), _bold_latex("Sb"), _bold_latex("S1")
+    ('\\mathbf{J}', '\\mathbf{Sb}', '{\\mathbf{S}_{1}}')
+    """
+    head, digits = _label_parts(label)
+    return r"\mathbf{%s}" % head if not digits else r"{\mathbf{%s}_{%s}}" % (head, digits)
+
+
 def angular_momentum_latex(printer, obj, exp=None):
-    return _with_power(r"\mathbf{%s}" % obj.label, exp)
+    return _with_power(_bold_latex(obj.label), exp)
 
 
 def angular_momentum_pretty(printer, obj):
@@ -505,7 +577,7 @@ def vector_operator_str(printer, obj):
 
 
 def vector_operator_latex(printer, obj, exp=None):
-    return _with_power(r"\mathbf{%s}" % obj.name, exp)
+    return _with_power(_bold_latex(obj.name), exp)
 
 
 def vector_operator_pretty(printer, obj):
@@ -756,8 +828,8 @@ def _tensor_head_latex(printer, op):
         return coupled_tensor_operator_latex(printer, op)
     if hasattr(op, "rank") and hasattr(op, "name"):
         return r"%s^{(%s)}" % (label_latex(op.name), printer._print(op.rank))
-    # a vector operator by its name, an angular momentum by its label
-    return r"\mathbf{%s}" % name_latex(op.name if hasattr(op, "name") else op.label)
+    # a vector operator by its name, an angular momentum by its label (as each prints alone)
+    return _bold_latex(op.name if hasattr(op, "name") else op.label)
 
 
 def coupled_tensor_operator_latex(printer, obj, exp=None):

@@ -138,6 +138,18 @@ def test_report_writes_tex_and_pdf(folder, tmp_path, capsys):
     assert capsys.readouterr().out.startswith("\\documentclass{article}")
 
 
+def test_report_to_a_pdf_name_writes_the_tex_beside_it(folder, tmp_path, capsys):
+    main(["record", str(folder), "-q"])
+    pdf = tmp_path / "notes.pdf"
+    assert main(["report", str(folder), "-q", "-o", str(pdf), "--no-pdf"]) == EXIT_USAGE
+    assert "--no-pdf" in capsys.readouterr().err and not pdf.exists()
+    code = main(["report", str(folder), "-q", "-o", str(pdf)])
+    tex = pdf.with_suffix(".tex")
+    assert tex.read_text().startswith("\\documentclass{article}")
+    if shutil.which("pdflatex") or shutil.which("latexmk"):
+        assert code == EXIT_OK and pdf.read_bytes().startswith(b"%PDF")
+
+
 def _command(*args, cwd=None, **kwargs):
     """``python -m amalgebra ARGS`` in ``cwd``, importing the amalgebra under test."""
     env = dict(os.environ)

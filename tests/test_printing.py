@@ -89,6 +89,11 @@ TABLE = [
     ("tensor_q",   T[-1],                                         "T^(2)[J]_(-1)",                      _lines(" (2)", "T   ", " -1 "),     r"{T^{(2)}_{-1}}"),
     ("vector",     R,                                             "VectorOperator('r', 'L')",           "r",                                 r"\mathbf{r}"),
     ("vector_z",   R.z,                                           "r[L].z",                             "r_z",                               r"r_{z}"),
+    # bold names keep the label rule (trailing digits a subscript); \mathbf is upright, so no \mathrm inside it
+    ("am_digits",  S1,                                            "AngularMomentum('S1')",              "S1",                                r"{\mathbf{S}_{1}}"),
+    ("vector_digits", VectorOperator("r1", "L"),                  "VectorOperator('r1', 'L')",          "r1",                                r"{\mathbf{r}_{1}}"),
+    ("coupled_am", CoupledTensorOperator(AngularMomentum("Sb"), S1, 1), "[Sb x S1]^(1)",                "[Sb × S1]^(1)",
+     r"\left[\mathbf{Sb} \times {\mathbf{S}_{1}}\right]^{(1)}"),
     ("components", TensorComponents(1, (a, b, c)),                "TensorComponents(1, (a, b, c))",     "[a, b, c]^(1)",                     r"\left[a,\ b,\ c\right]^{(1)}"),
     ("tree",       coupling_tree("((l1 s1) j1, (l2 s2) j2) J"),  "((l1 s1) j1, (l2 s2) j2) J",         "((l1 s1) j1, (l2 s2) j2) J",
      r"\left(\left(l_{1}\, s_{1}\right) j_{1},\, \left(l_{2}\, s_{2}\right) j_{2}\right) J"),

@@ -16,13 +16,13 @@ also invented, has nuclear spin I = 5/2.  The derivations below use coupling tre
 All conventions are the library's: Condon-Shortley phases, Edmonds normalisation.
 """
 
-from sympy import Integer, Rational, eye, sqrt, symbols
+from sympy import Integer, MatMul, Rational, eye, sqrt, symbols
 
 from amalgebra.algebra import AngularMomentum
-from amalgebra.coupling import ninej
+from amalgebra.coupling import Coupling9j
 from amalgebra.coupling.recoupling import recoupling_matrix
 from amalgebra.coupling.trees import coupling_tree
-from amalgebra.derivations import derivation
+from amalgebra.derivations import derivation, written
 from amalgebra.states.kets import inner
 from amalgebra.states.tree_kets import recouple, tree_ket
 from amalgebra.tensors.tree_elements import CoupledTensorOperator, scalar_coupled, tree_operator_blocks
@@ -42,15 +42,19 @@ def ls_to_jj(d):
     jj = coupling_tree("((l1 s1) j1, (l2 s2) j2) J", PD)
     matrix = recoupling_matrix(ls, jj)
     for J, (rows, cols, block) in matrix.blocks.items():
-        d.step(f"orthogonal_J{int(J)}", block * block.T, eye(block.shape[0]),
-               f"the $J = {J}$ block is orthogonal")
+        d.step(f"orthogonal_J{int(J)}",
+               written(rf"B^{{({J})}} B^{{({J})\mathsf{{T}}}}", MatMul(block, block.T, evaluate=False)),
+               eye(block.shape[0]),
+               f"$B^{{({J})}}$, the $J = {J}$ block of the LS-to-jj matrix, is orthogonal")
     rows, cols, block = matrix.blocks[2]
     for i, r in enumerate(rows):
         for k, c in enumerate(cols):
             by_hand = (sqrt((2 * r["L"] + 1) * (2 * r["S"] + 1) * (2 * c["j1"] + 1) * (2 * c["j2"] + 1))
-                       * ninej(1, 2, r["L"], HALF, HALF, r["S"], c["j1"], c["j2"], 2))
-            d.step(f"ninej_L{r['L']}_S{r['S']}_j{int(2 * c['j1'])}_{int(2 * c['j2'])}", block[i, k], by_hand,
-                   "one entry of the $J = 2$ block against the 9j formula")
+                       * Coupling9j(1, 2, r["L"], HALF, HALF, r["S"], c["j1"], c["j2"], 2))
+            entry = written(rf"B^{{(2)}}_{{{r['L']}{r['S']},\,{c['j1']}\,{c['j2']}}}", block[i, k])
+            d.step(f"ninej_L{r['L']}_S{r['S']}_j{int(2 * c['j1'])}_{int(2 * c['j2'])}", entry, by_hand,
+                   f"the entry $(L S, j_1 j_2) = ({r['L']}\\,{r['S']}, {c['j1']}\\,{c['j2']})$ of the "
+                   "$J = 2$ block against the 9j formula")
     index = {(r["L"], r["S"]): i for i, r in enumerate(rows)}
     cindex = {(c["j1"], c["j2"]): k for k, c in enumerate(cols)}
     d.result("triplet_D2_in_j3half_j5half", block[index[(2, 1)], cindex[(3 * HALF, 5 * HALF)]])
@@ -77,14 +81,20 @@ def hyperfine_manifold(d):
             j = st["j"]
             textbook = (zeta * (j * (j + 1) - 6 - Rational(3, 4)) / 2
                         + A * (F * (F + 1) - NUCLEAR_SPIN * (NUCLEAR_SPIN + 1) - j * (j + 1)) / 2)
-            d.step(f"diagonal_F{int(F)}_j{int(2 * j)}", block[i, i], textbook,
-                   f"$F = {F}$, $j = {j}$")
+            d.step(f"diagonal_F{int(F)}_j{int(2 * j)}",
+                   written(rf"H^{{(F={F})}}_{{{j},\,{j}}}", block[i, i]), textbook,
+                   f"$H^{{(F)}}_{{j'j}} = \\langle ((l s) j', I) F M|H|((l s) j, I) F M\\rangle$ "
+                   f"at $F = {F}$, $j = {j}$: the textbook diagonal")
         off = [block[i, k] for i in range(len(states)) for k in range(len(states)) if i != k]
-        d.step(f"diagonal_in_j_F{int(F)}", sum(x**2 for x in off), 0, f"no $j$ mixing at $F = {F}$")
+        d.step(f"diagonal_in_j_F{int(F)}",
+               written(rf"\sum_{{j' \neq j}} \bigl(H^{{(F={F})}}_{{j'j}}\bigr)^2", sum(x**2 for x in off)),
+               0, f"no $j$ mixing at $F = {F}$")
     quadrupole = scalar_coupled(CoupledTensorOperator(I, I, 2), CoupledTensorOperator(J, J, 2))
     qblocks = tree_operator_blocks(tree, [(B * c, op) for c, op in quadrupole])
     F, (states, block) = 3, qblocks[3]
-    d.step("quadrupole_no_j_mixing", block[0, 1] ** 2 + block[1, 0] ** 2, 0, "the F = 3 block is diagonal in $j$")
+    d.step("quadrupole_no_j_mixing",
+           written(r"\sum_{j' \neq j} \bigl(H^{(F=3)}_{Q,\,j'j}\bigr)^2", block[0, 1] ** 2 + block[1, 0] ** 2),
+           0, "the F = 3 block of the quadrupole coupling $H_Q$ is diagonal in $j$")
     d.result("quadrupole_F3_j5half", block[[s["j"] for s in states].index(5 * HALF),
                                            [s["j"] for s in states].index(5 * HALF)])
 
@@ -98,7 +108,10 @@ def nuclear_spin_first(d):
     spin_first = coupling_tree("(l, (s I) G) F", l=2, s=HALF, I=NUCLEAR_SPIN)
     ket = tree_ket(hyperfine, 1)
     image = recouple(ket, spin_first)
-    d.step("unit_norm", inner(ket.dual(), image), 1, "the recoupled ket is the same state")
-    d.step("round_trip", recouple(image, hyperfine) - ket, 0, "recoupling back gives the ket")
+    d.step("unit_norm", written(r"\langle \psi | \psi' \rangle", inner(ket.dual(), image)), 1,
+           "$\\psi'$, the ket $\\psi$ recoupled into $(l, (s I) G) F$, is the same state")
+    d.step("round_trip", written(r"R_{(l, (s I) G) F \to ((l s) j, I) F}\, \psi' - \psi",
+                                 recouple(image, hyperfine) - ket), 0,
+           "recoupling $\\psi'$ back gives the ket $\\psi$")
     terms = image.as_ordered_terms()
     d.result("terms_in_spin_first_scheme", Integer(len(terms)))

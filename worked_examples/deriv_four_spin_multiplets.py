@@ -19,7 +19,7 @@ coupled states are built by successive coupling (((s1 s2) S12 s3) S123 s4) S M
 from sympy import Add, Integer, Mul, Pow, Rational, Symbol, factor, factorial, sqrt
 
 from amalgebra.algebra import AngularMomentum, dot
-from amalgebra.derivations import derivation
+from amalgebra.derivations import derivation, written
 from amalgebra.matrices.explicit import to_matrix
 from amalgebra.states import (apply, inner, ket, multiplet_count, product_ket, singlet,
                               spin_labels, tensor, to_uncoupled, total_spin_squared,
@@ -73,7 +73,7 @@ def multiplet_counts(d):
                f"coupled kets with S = {s}: $2S+1$ per multiplet")
     d.step("dimension", Add(*[Mul(2*s + 1, counts[s], evaluate=False) for s in counts], evaluate=False),
            Pow(2, N_SPINS, evaluate=False), "the coupled kets span the product space")
-    d.step("odd_spin_absent", Integer(multiplet_count(N_SPINS, HALF)), 0,
+    d.step("odd_spin_absent", written(r"f(4, \tfrac{1}{2})", Integer(multiplet_count(N_SPINS, HALF))), 0,
            "half-integer $S$ is impossible for an even number of spins")
     for s in counts:
         d.result(f"multiplets_S{s}", counts[s])
@@ -86,16 +86,17 @@ def total_spin_spectrum(d):
     multiplicities $(2S+1) f(4, S) = 2, 9, 5$, and its trace is $4\\cdot\\tfrac34\\cdot16$."""
     js = {lab: HALF for lab in LABELS}
     m = to_matrix(total_spin_squared(LABELS), j=js, kind="exact")
-    d.step("trace", m.trace(), Add(*[(s*(s + 1))*(2*s + 1)*multiplet_count(N_SPINS, s)
-                                     for s in (0, 1, 2)]),
-           "trace = sum of eigenvalues with multiplicities")
-    d.then("trace_single_spins", N_SPINS*Rational(3, 4)*2**N_SPINS,
+    d.step("trace", written(r"\operatorname{tr}\mathbf{S}^2", m.trace()),
+           Add(*[Mul(s*(s + 1), 2*s + 1, multiplet_count(N_SPINS, s), evaluate=False)
+                 for s in (0, 1, 2)], evaluate=False),
+           "trace = $\\sum_S S(S+1)\\,(2S+1)\\,f(4, S)$, the eigenvalues with their multiplicities")
+    d.then("trace_single_spins", Mul(N_SPINS, Rational(3, 4), Pow(2, N_SPINS, evaluate=False), evaluate=False),
            "each $s_k^2 = 3/4$; the $\\mathbf{s}_k\\cdot\\mathbf{s}_l$ are traceless")
     # factored, so that the report line stays readable (the expanded degree-16
     # polynomial is wider than a page); the check still compares the computed
     # characteristic polynomial with the claimed spectrum
     polynomial = factor(m.charpoly(lam).as_expr())
-    d.step("charpoly", polynomial, lam**2*(lam - 2)**9*(lam - 6)**5,
+    d.step("charpoly", written(r"\det(\lambda - \mathbf{S}^2)", polynomial), lam**2*(lam - 2)**9*(lam - 6)**5,
            "characteristic polynomial of the exact matrix, factored")
     d.result("trace_S2", m.trace())
 
@@ -109,22 +110,27 @@ def singlet_sector(d):
     $\\langle 1\\,m\\,1\\,{-m}|0\\,0\\rangle = (-1)^{1-m}/\\sqrt3$).  In this basis the ring
     exchange has the levels $0$ and $-2J_{ex}$."""
     kets = total_spin_states(N_SPINS, S=0, M=0)
-    d.step("count", Integer(len(kets)), 2, "two branching-diagram paths to $S = 0$")
+    d.step("count", written(r"\dim V_{S=0,\,M=0}", Integer(len(kets))), 2,
+           "two branching-diagram paths to $S = 0$; $\\psi_0, \\psi_1$ their kets")
     s2 = total_spin_squared(LABELS)
     flat = [to_uncoupled(k) for k in kets]
     for i, psi in enumerate(flat):
-        d.step(f"norm_{i}", inner(psi, psi), 1, f"singlet {i} is normalised")
+        d.step(f"norm_{i}", written(rf"\langle\psi_{i}|\psi_{i}\rangle", inner(psi, psi)), 1,
+               f"singlet {i} is normalised")
         image = apply(s2, psi)
-        d.step(f"eigen_{i}", inner(image, image), 0,
+        d.step(f"eigen_{i}", written(rf"\|\mathbf{{S}}^2\psi_{i}\|^2", inner(image, image)), 0,
                f"$\\|\\mathbf{{S}}^2\\psi_{i}\\|^2 = 0$: an $S = 0$ eigenvector")
-    d.step("orthogonal", inner(flat[0], flat[1]), 0, "different intermediate $S_{12}$")
+    d.step("orthogonal", written(r"\langle\psi_0|\psi_1\rangle", inner(flat[0], flat[1])), 0,
+           "different intermediate $S_{12}$")
     pair_singlets = tensor(singlet(("s1", "s2")), singlet(("s3", "s4")))
-    d.step("pair_singlets", inner(pair_singlets, flat[0]), 1,
-           "overlap 1 with a normalised state: the same state")
+    d.step("pair_singlets", written(r"\langle\chi_{12}\chi_{34}|\psi_0\rangle", inner(pair_singlets, flat[0])), 1,
+           "$\\chi_{kl}$ the singlet of the pair $(k l)$: overlap 1 with a normalised state, the same state")
     triplets = Add(*[(-1)**(1 - m)*tensor(_pair_triplet(m, "s1", "s2"), _pair_triplet(-m, "s3", "s4"))
                      for m in (1, 0, -1)])/sqrt(3)
     overlap = inner(triplets, flat[1])
-    d.step("pair_triplets", overlap**2, 1, "overlap $\\pm1$: the same state up to a phase")
+    d.step("pair_triplets", written(r"\langle T_{12}T_{34}|\psi_1\rangle^2", overlap**2), 1,
+           "$|T_{12}T_{34}\\rangle$ the pair triplets coupled to zero: overlap $\\pm1$, "
+           "the same state up to a phase")
     H = ring_exchange()
     block = [[inner(a, apply(H, b)) for b in flat] for a in flat]
     polynomial = ((lam - block[0][0])*(lam - block[1][1]) - block[0][1]*block[1][0]).expand()

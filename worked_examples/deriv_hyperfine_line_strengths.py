@@ -20,8 +20,8 @@ for each F, the sum rule over F weighted by 2F + 1 for each F', and the total.
 
 from sympy import Add, Mul, Pow, Rational
 
-from amalgebra.coupling import sixj
-from amalgebra.derivations import derivation
+from amalgebra.coupling import Coupling6j, sixj
+from amalgebra.derivations import derivation, written
 from amalgebra.tensors import reduced_part1
 
 I_SPIN = Rational(3, 2)
@@ -35,6 +35,11 @@ def _totals(a, b):
 def strength(j, jp, f, fp, i=I_SPIN):
     """S(F -> F') = (2F'+1)(2J+1) {J J' 1; F' F I}^2 (zero off the triangle rules)."""
     return (2*fp + 1)*(2*j + 1)*sixj(j, jp, 1, fp, f, i)**2
+
+
+def strength_written(j, jp, f, fp, i=I_SPIN):
+    """S(F -> F') as the author writes it: (2F'+1)(2J+1) times the unevaluated 6j symbol squared."""
+    return _shown(2*fp + 1, 2*j + 1, Pow(Coupling6j(j, jp, 1, fp, f, i), 2, evaluate=False))
 
 
 def _shown(*factors):
@@ -55,9 +60,8 @@ def _line(d, jp, label):
             s = strength(J_LOW, jp, f, fp)
             table[f, fp] = s
             reduced = reduced_part1(jp, I_SPIN, fp, J_LOW, I_SPIN, f, 1, reduced=1)
-            sixj_value = sixj(J_LOW, jp, 1, fp, f, I_SPIN)
             d.step(f"{label}_engine_F{_tag(f)}_Fp{_tag(fp)}",
-                   _shown(2*fp + 1, 2*J_LOW + 1, Pow(sixj_value, 2, evaluate=False)),
+                   strength_written(J_LOW, jp, f, fp),
                    _shown(2*J_LOW + 1, Pow(reduced, 2, evaluate=False), Pow(2*f + 1, -1, evaluate=False)),
                    f"6j formula against the coupled-scheme engine, F = {f}, F' = {fp}")
     for f in fs:
@@ -68,8 +72,9 @@ def _line(d, jp, label):
                Add(*[_shown(2*f + 1, table[f, fp]) for f in fs], evaluate=False),
                _shown(2*fp + 1, 2*J_LOW + 1, Pow(2*jp + 1, -1, evaluate=False)),
                f"sum over F weighted by 2F+1, for F' = {fp}")
-    d.step(f"{label}_total", Add(*[(2*f + 1)*table[f, fp] for f in fs for fp in fps]),
-           (2*I_SPIN + 1)*(2*J_LOW + 1), "all components, weighted by the lower multiplicity")
+    d.step(f"{label}_total",
+           written(r"\sum_{F, F'} (2F+1)\, S(F \to F')", Add(*[(2*f + 1)*table[f, fp] for f in fs for fp in fps])),
+           _shown(2*I_SPIN + 1, 2*J_LOW + 1), "all components, weighted by the lower multiplicity")
     return table
 
 
@@ -82,9 +87,12 @@ def blue_line(d):
     "Rubidium 87 D Line Data"; from memory)."""
     jp = Rational(3, 2)
     table = _line(d, jp, "blue")
-    d.step("blue_F2_stretched", table[2, 3], Rational(7, 10), "cycling component $2 \\to 3$")
-    d.step("blue_F1_to_0", table[1, 0], Rational(1, 6), "component $1 \\to 0$")
-    d.step("blue_forbidden", table[1, 3] + table[2, 0], 0, "$|\\Delta F| = 2$ is forbidden")
+    d.step("blue_F2_stretched", strength_written(J_LOW, jp, 2, 3), Rational(7, 10),
+           "cycling component $S(2 \\to 3)$")
+    d.step("blue_F1_to_0", strength_written(J_LOW, jp, 1, 0), Rational(1, 6), "component $S(1 \\to 0)$")
+    d.step("blue_forbidden", Add(strength_written(J_LOW, jp, 1, 3), strength_written(J_LOW, jp, 2, 0),
+                                 evaluate=False), 0,
+           "$S(1 \\to 3) + S(2 \\to 0)$: $|\\Delta F| = 2$ is forbidden (triangle rule of the 6j)")
     for (f, fp), s in sorted(table.items()):
         if s != 0:
             d.result(f"S_F{_tag(f)}_Fp{_tag(fp)}", s)
@@ -97,7 +105,7 @@ def red_line(d):
     tabulated e.g. in D. A. Steck, "Rubidium 87 D Line Data"; from memory)."""
     jp = Rational(1, 2)
     table = _line(d, jp, "red")
-    d.step("red_F1_F1", table[1, 1], Rational(1, 6), "component $1 \\to 1$")
-    d.step("red_F2_F2", table[2, 2], Rational(1, 2), "component $2 \\to 2$")
+    d.step("red_F1_F1", strength_written(J_LOW, jp, 1, 1), Rational(1, 6), "component $S(1 \\to 1)$")
+    d.step("red_F2_F2", strength_written(J_LOW, jp, 2, 2), Rational(1, 2), "component $S(2 \\to 2)$")
     for (f, fp), s in sorted(table.items()):
         d.result(f"S_F{_tag(f)}_Fp{_tag(fp)}", s)

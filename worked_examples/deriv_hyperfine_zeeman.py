@@ -33,7 +33,7 @@ import sys
 from sympy import Add, Mul, Rational, Symbol, diff, sqrt, symbols
 
 from amalgebra.algebra import AngularMomentum, dot
-from amalgebra.derivations import derivation
+from amalgebra.derivations import derivation, written
 from amalgebra.states import hamiltonian_matrix
 
 I_SPIN = Rational(5, 2)
@@ -83,8 +83,8 @@ def zero_field_levels(d):
         d.step(f"level_F{F}", level[F], Mul(A/2, K, evaluate=False),
                f"diagonal element of the coupled-basis matrix, F = {F}, "
                "against the interval-rule formula")
-    d.step("splitting", level[3] - level[2], DW, "$\\Delta W = E_3 - E_2 = A(I + 1/2)$")
-    d.step("centroid", 7*level[3] + 5*level[2], 0,
+    d.step("splitting", written("E_3 - E_2", level[3] - level[2]), DW, "$\\Delta W = E_3 - E_2 = A(I + 1/2)$")
+    d.step("centroid", written("7 E_3 + 5 E_2", 7*level[3] + 5*level[2]), 0,
            "$\\sum_F (2F+1) E_F = \\mathrm{tr}\\,A\\,\\mathbf{I}\\cdot\\mathbf{J} = 0$")
     d.result("E_F3", level[3])
     d.result("E_F2", level[2])
@@ -99,7 +99,7 @@ def breit_rabi_blocks(d):
     squares out.  The stretched states $M = \\pm(I + 1/2)$ are $1\\times 1$ blocks lying
     on one branch, with $\\sqrt{(1 \\pm x)^2}$ replaced by $1 \\pm x$."""
     hm = hamiltonian_matrix(hamiltonian(), {"I": I_SPIN, "J": J_SPIN})
-    d.step("conserved", len(hm.blocks), 2*(I_SPIN + J_SPIN) + 1,
+    d.step("conserved", written(r"N_{\text{blocks}}", len(hm.blocks)), 2*(I_SPIN + J_SPIN) + 1,
            "one block per $M = I + J, \\dots, -(I + J)$: $J_z + I_z$ commutes with $H$")
     top = I_SPIN + J_SPIN
     for blk in hm.blocks:
@@ -134,7 +134,7 @@ def weak_field_g_factors(d):
         slope = diff(breit_rabi(sign), b).subs(b, 0)
         d.step(f"slope_F{F}", slope, g_F*M, f"derivative of the Breit-Rabi level at $b = 0$, F = {F}")
         results[F] = g_F
-    d.step("sum_rule", results[3] + results[2], 2*gI,
+    d.step("sum_rule", written("g_{F=3} + g_{F=2}", results[3] + results[2]), 2*gI,
            "for $J = 1/2$ the electronic parts $\\pm g_J/(2I+1)$ cancel")
     d.result("g_F3", results[3])
     d.result("g_F2", results[2])

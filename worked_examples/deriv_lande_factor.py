@@ -22,7 +22,7 @@ and the Wigner-Eckart theorem in Edmonds' normalisation (eq. 5.4.1), all as fixe
 from sympy import Add, Mul, Rational, Symbol, sqrt
 
 from amalgebra.algebra import AngularMomentum, dot
-from amalgebra.derivations import derivation
+from amalgebra.derivations import derivation, written
 from amalgebra.tensors.wigner_eckart import reduced_from_element
 from amalgebra.states import coupled_ket, expectation, matrix_element
 from amalgebra.tensors import projected_reduced
@@ -65,7 +65,7 @@ def projection_identity(d):
            "$\\mathbf{L}\\cdot\\mathbf{S} = (\\mathbf{J}^2 - \\mathbf{L}^2 - \\mathbf{S}^2)/2$")
     jj, ll, ss = J_TOT*(J_TOT + 1), L_ORB*(L_ORB + 1), S_SPIN*(S_SPIN + 1)
     value = ((g_l + gS)*jj + (g_l - gS)*(ll - ss))/2
-    d.step("lande", value/jj, _lande(J_TOT, L_ORB, S_SPIN, g_l, gS),
+    d.step("lande", written(r"\langle\mathbf{J}\cdot\mathbf{V}\rangle / J(J+1)", value/jj), _lande(J_TOT, L_ORB, S_SPIN, g_l, gS),
            "$g_J = \\langle\\mathbf{J}\\cdot\\mathbf{V}\\rangle/J(J+1)$ for $^4F_{9/2}$")
     d.result("jdotv_4F92", value)
 
@@ -76,13 +76,13 @@ def diagonal_elements(d):
     coefficients and $\\langle V_z\\rangle$ is computed exactly; every one of the ten
     values is $g_J M$ with the vector-model $g_J$ (Edmonds 1957, eq. 5.4.3; from memory)."""
     g_j = _lande(J_TOT, L_ORB, S_SPIN, gL, gS)
-    d.step("g_J_value", g_j, Rational(2, 3) + gS/3, "$L = 3$, $S = 3/2$, $J = 9/2$, $g_L = 1$")
+    d.step("g_J_value", written(r"g_J\big|_{g_L=1}", g_j), Rational(2, 3) + gS/3, "$L = 3$, $S = 3/2$, $J = 9/2$, $g_L = 1$")
     vz = gL*L.z + gS*S.z
     for k in range(int(2*J_TOT) + 1):
         m = J_TOT - k
-        d.step(f"vz_M{_tag(m)}", expectation(vz, _ket(m)), Mul(g_j, m, evaluate=False),
+        d.step(f"vz_M{_tag(m)}", written(rf"\langle M{{=}}{m}|V_z|M{{=}}{m}\rangle", expectation(vz, _ket(m))), Mul(g_j, m, evaluate=False),
                f"exact expectation value in the coupled ket, M = {m}")
-    d.step("electron_value", g_j.subs(gS, 2), Rational(4, 3), "$g_S = 2$ (Dirac value)")
+    d.step("electron_value", written(r"g_J\big|_{g_L=1,\, g_S=2}", g_j.subs(gS, 2)), Rational(4, 3), "$g_S = 2$ (Dirac value)")
     d.result("g_J", g_j)
 
 

@@ -23,7 +23,7 @@ hbar = 1, Condon-Shortley phases.  The derivations below
 from sympy import Add, Mul, Pow, Rational, Symbol, symbols
 
 from amalgebra.algebra import AngularMomentum, dot
-from amalgebra.derivations import derivation
+from amalgebra.derivations import derivation, written
 from amalgebra.states import hamiltonian_matrix
 
 I_SPIN, J_LEVEL = Rational(3, 2), 2
@@ -99,21 +99,29 @@ def casimir_levels(d):
     denominator = 2*I_SPIN*(2*I_SPIN - 1)*J_LEVEL*(2*J_LEVEL - 1)
     H = A*dot(NUC, EL) + B*quadrupole_numerator()/denominator
     hm = hamiltonian_matrix(H, {"I": I_SPIN, "J": J_LEVEL}, basis="coupled")
-    d.step("conserved", len(hm.conserved), 2, "both $M$ and $F$ label the blocks")
+    d.step("conserved", written(r"N_{\text{conserved}}", len(hm.conserved)), 2,
+           "both $M$ and $F$ label the blocks")
     level = {}
     for blk in hm.blocks:
         level.setdefault(blk.quantum_numbers["F"], []).append(blk.matrix[0, 0])
     fs = sorted(level)
     for f in fs:
         energies = level[f]
-        d.step(f"level_F{_tag(f)}", energies[0], casimir_shown(I_SPIN, J_LEVEL, f),
+        d.step(f"level_F{_tag(f)}", written(rf"\langle F{{=}}{f}|H|F{{=}}{f}\rangle", energies[0]), casimir_shown(I_SPIN, J_LEVEL, f),
                f"diagonal element at F = {f} (doubled in the name)")
-        d.step(f"degenerate_F{_tag(f)}", Add(*energies), Mul(2*f + 1, energies[0], evaluate=False),
+        d.step(f"degenerate_F{_tag(f)}", written(rf"\sum_{{M_F}} E_{{F={f}, M_F}}", Add(*energies)), Mul(2*f + 1, energies[0], evaluate=False),
                f"all $2F+1 = {2*f + 1}$ values of $M_F$ share the level")
-    d.step("weighted_mean", Add(*[(2*f + 1)*casimir_energy(I_SPIN, J_LEVEL, f) for f in fs]), 0,
+    d.step("weighted_mean", written(r"\sum_F (2F+1) E_F",
+                                    Add(*[(2*f + 1)*casimir_energy(I_SPIN, J_LEVEL, f) for f in fs])), 0,
            "$\\sum_F (2F+1) E_F = \\mathrm{tr}\\,H = 0$: both terms are traceless")
     for f in fs:
         d.result(f"E_F{_tag(f)}", casimir_energy(I_SPIN, J_LEVEL, f))
+    # the same H in the product basis |m_I>|m_J>: 20 x 20, blocks of conserved M only
+    hu = hamiltonian_matrix(H, {"I": I_SPIN, "J": J_LEVEL})
+    d.step("product_basis_trace", written(r"\operatorname{tr} H_{\text{product}}", hu.matrix.trace()),
+           written(r"\operatorname{tr} H_{\text{coupled}}", hm.matrix.trace()),
+           "the trace does not depend on the basis")
+    d.result("H_product_basis", hu)
 
 
 @derivation(title="Stretched-level quadrupole shift for symbolic I and J")
@@ -128,7 +136,7 @@ def stretched_shift(d):
     d.step("numerator", Rational(3, 4)*(2*i*j)*(2*i*j + 1) - ii*jj,
            i*j*(2*i - 1)*(2*j - 1)/2, "multiply out")
     shift = casimir_energy(i, j, i + j, a=0)
-    d.step("shift", shift, B/4, "divide by $2I(2I-1)J(2J-1)$")
-    d.step("brennium", casimir_energy(I_SPIN, J_LEVEL, I_SPIN + J_LEVEL, a=0), B/4,
+    d.step("shift", written(r"E_Q(F = I + J)", shift), B/4, "divide by $2I(2I-1)J(2J-1)$")
+    d.step("brennium", written(r"E_Q(F = \tfrac{7}{2})", casimir_energy(I_SPIN, J_LEVEL, I_SPIN + J_LEVEL, a=0)), B/4,
            "the Brennium-57 case, $F = 7/2$")
     d.result("casimir_formula", casimir_energy(i, j, F))

@@ -49,7 +49,10 @@ def sixj_from_four_3j(d):
                        * Coupling3j(l1, l2, j3, u1, -u2, m3), m1, m2, m3, u1, u2, u3)
     red = reduce_racah_sum(s)
     reduction_steps(d, red, "sixj")
-    d.step("closed_form", red.result, Coupling6j(j1, j2, j3, l1, l2, l3), "the reduced form, as printed")
+    if red.result != Coupling6j(j1, j2, j3, l1, l2, l3):
+        raise ValueError(f"the reduction ended in {red.result}, not the expected 6j symbol")
+    d.step("closed_form", s, Coupling6j(j1, j2, j3, l1, l2, l3),
+           "the sum as stated equals the 6j symbol (the reduction above ends in it)")
     q4 = {j1: 1, j2: HALF, j3: 3 * HALF, l1: 1, l2: 3 * HALF, l3: HALF}
     d.result("sixj_quorvane", _at(red.result, q4))
 
@@ -64,7 +67,10 @@ def racah_sum_rule_derived(d):
                      * Coupling6j(a, b, x, d_, c, q), x)
     red = reduce_racah_sum(s)
     reduction_steps(d, red, "racah")
-    d.step("closed_form", red.result, Coupling6j(a, c, q, b, d_, p), "Edmonds 1957, eq. 6.2.11")
+    if red.result != Coupling6j(a, c, q, b, d_, p):
+        raise ValueError(f"the reduction ended in {red.result}, not the expected 6j symbol")
+    d.step("closed_form", s, Coupling6j(a, c, q, b, d_, p),
+           "the sum as stated: Racah's sum rule, Edmonds 1957, eq. 6.2.11")
     values = {a: QUORVANE["a"], b: QUORVANE["b"], c: QUORVANE["c"], d_: QUORVANE["d"], p: 1, q: 3 * HALF}
     d.result("racah_quorvane", _at(red.result, values))
 

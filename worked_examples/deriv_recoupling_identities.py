@@ -23,8 +23,8 @@ not repeated.
 
 from sympy import Add, Rational, sqrt
 
-from amalgebra.coupling import ninej, sixj
-from amalgebra.derivations import derivation
+from amalgebra.coupling import Coupling6j, Coupling9j, ninej, sixj
+from amalgebra.derivations import derivation, written
 
 HALF = Rational(1, 2)
 A, B, C, D, E, F = 1, 3*HALF, HALF, 2, 3*HALF, 1
@@ -65,9 +65,10 @@ def racah_sum_rule(d):
                 continue
             d.step(f"racah_{_tag(p, q)}", lhs, rhs, f"sum over x at p = {p}, q = {q}")
             stated += 1
-    d.step("stated_cases", stated, 4, "four admissible (p, q)")
-    d.step("vanishing_cases", Add(*vanishing), 0,
-           "where the right side vanishes by a triangle rule, so does the sum")
+    d.step("stated_cases", written(r"N_{(p,q)}", stated), 4,
+           "four admissible $(p, q)$ with a nonzero right side")
+    d.step("vanishing_cases", written(r"\sum_{(p,q)\ \text{vanishing}} \Sigma_{pq}^2", Add(*vanishing)), 0,
+           "$\\Sigma_{pq}$ the sum over $x$: where the right side vanishes by a triangle rule, so does the sum")
     d.result("racah_p1_q1", sixj(A, C, HALF, B, D, 1))
 
 
@@ -89,9 +90,10 @@ def biedenharn_elliott(d):
                     continue
                 d.step(f"be_{_tag(p, q, r)}", lhs, rhs, f"sum over x at p = {p}, q = {q}, r = {r}")
                 stated += 1
-    d.step("stated_cases", stated, 10, "ten admissible (p, q, r)")
-    d.step("vanishing_cases", Add(*vanishing), 0,
-           "where the right side vanishes by a triangle rule, so does the sum")
+    d.step("stated_cases", written(r"N_{(p,q,r)}", stated), 10,
+           "ten admissible $(p, q, r)$ with a nonzero right side")
+    d.step("vanishing_cases", written(r"\sum_{(p,q,r)\ \text{vanishing}} \Sigma_{pqr}^2", Add(*vanishing)), 0,
+           "$\\Sigma_{pqr}$ the sum over $x$: where the right side vanishes by a triangle rule, so does the sum")
     d.result("be_1_half_half", biedenharn_elliott_sum(A, B, C, D, E, F, 1, HALF, HALF).doit())
 
 
@@ -104,13 +106,13 @@ def ninej_reductions(d):
     stated = 0
     for g in VALUES:
         for h in VALUES:
-            rhs = (-1)**(B + C + g + h)/sqrt((2*g + 1)*(2*h + 1))*sixj(A, B, g, D, C, h)
-            lhs = ninej(A, B, g, C, D, g, h, h, 0)
-            if rhs == 0 and lhs == 0:
+            if sixj(A, B, g, D, C, h) == 0 and ninej(A, B, g, C, D, g, h, h, 0) == 0:
                 continue
+            rhs = (-1)**(B + C + g + h)/sqrt((2*g + 1)*(2*h + 1))*Coupling6j(A, B, g, D, C, h)
+            lhs = Coupling9j(A, B, g, C, D, g, h, h, 0)
             d.step(f"zero_{_tag(g, h)}", lhs, rhs, f"one zero argument, g = {g}, h = {h}")
             stated += 1
-    d.step("zero_cases", stated, 4,
+    d.step("zero_cases", written(r"N_{(g,h)}", stated), 4,
            "g in {3/2, 5/2} (triads (a b g), (c d g)), h in {1/2, 3/2} (triads (a c h), (b d h))")
     # rows (a b c), (d e 3/2), (g h i): every row and column a triad with integer sum
     for g, h, i in ((1, 1, 1), (2, 1, 1), (1, 1, 2), (2, 2, 1)):
@@ -121,6 +123,6 @@ def ninej_reductions(d):
         value = ninej(a, b, c, dd, e, f, g, h, i)
         if value == 0:
             raise ValueError(f"9j at g, h, i = {g}, {h}, {i} vanishes: choose a nonvanishing case")
-        d.step(f"sum_of_6j_{_tag(g, h, i)}", value, total,
+        d.step(f"sum_of_6j_{_tag(g, h, i)}", Coupling9j(a, b, c, dd, e, f, g, h, i), total,
                f"sum over $x$ of three 6j symbols, g, h, i = {g}, {h}, {i}")
         d.result(f"ninej_{_tag(g, h, i)}", value)

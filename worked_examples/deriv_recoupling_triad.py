@@ -8,7 +8,7 @@ exactly at these numeric quantum numbers with ``amalgebra.coupling``.
 
 from sympy import Add, Rational, sqrt
 
-from amalgebra.coupling import cg, sixj
+from amalgebra.coupling import Coupling6j, cg, sixj
 from amalgebra.derivations import derivation
 
 HALF = Rational(1, 2)
@@ -58,7 +58,7 @@ def sixj_relations(d):
             d.step(f"orthogonality_f{int(2*f)}_f{int(2*fp)}", total, 1 if f == fp else 0,
                    f"6j orthogonality over x, f = {f}, f' = {fp}")
     special = sixj(a, b, c, 0, c, b)
-    d.step("special_value", special, (-1)**int(a + b + c)/sqrt((2*b + 1)*(2*c + 1)),
+    d.step("special_value", Coupling6j(a, b, c, 0, c, b), (-1)**int(a + b + c)/sqrt((2*b + 1)*(2*c + 1)),
            "one zero entry (DLMF 34.5.1)")
     d.result("special_value", special)
     d.result("triad_sixj", sixj(a, b, Rational(3, 2), c, e, Rational(3, 2)))

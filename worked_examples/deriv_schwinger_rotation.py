@@ -23,13 +23,14 @@ derivations below
 * check the unitarity of the rotated kets.
 """
 
-from sympy import Add, I, Rational, Symbol, cos, expand, factorial, sin, sqrt
+from sympy import Add, I, Mul, Rational, Symbol, cos, expand, factorial, sin, sqrt
 
-from amalgebra.algebra import AngularMomentum, commutator
+from amalgebra.algebra import AngularMomentum
 from amalgebra.bosons import (BosonMode, apply_bosons, fock_bra, fock_inner, fock_ket,
                               rotated_creators, to_bosons, vacuum)
-from amalgebra.derivations import derivation
-from amalgebra.rotations.wigner import small_d
+from amalgebra.derivations import derivation, written
+from amalgebra.derivations.written import commutator_side
+from amalgebra.rotations.wigner import RotationElement
 
 J = AngularMomentum("J")
 MODE_A, MODE_B = BosonMode("a"), BosonMode("b")
@@ -75,17 +76,19 @@ def boson_images(d):
     $[J_y, b^\\dagger] = -\\tfrac{i}{2}a^\\dagger$, which make $e^{-i\\beta J_y}$ a rotation of
     the two creators (Sakurai section 3.8; from memory)."""
     na, nb = MODE_A.number, MODE_B.number
-    d.step("ladder_commutator", commutator(to_bosons(J.plus), to_bosons(J.minus)), na - nb,
+    d.step("ladder_commutator", commutator_side(to_bosons(J.plus), to_bosons(J.minus)), na - nb,
            "$a^\\dagger b\\, b^\\dagger a - b^\\dagger a\\, a^\\dagger b$ normal-ordered")
-    d.then("is_2Jz", to_bosons(2*J.z), "$J_z = (N_a - N_b)/2$")
-    d.step("casimir", to_bosons(J.squared), (na + nb)/2*((na + nb)/2 + 1),
+    d.step("is_2Jz", written(r"\Phi(2 J_z)", to_bosons(2*J.z)), na - nb,
+           "$\\Phi$ the Schwinger map: $J_z \\mapsto (N_a - N_b)/2$")
+    d.step("casimir", written(r"\Phi(\mathbf{J}^2)", to_bosons(J.squared)), (na + nb)/2*((na + nb)/2 + 1),
            "$J_z^2 + (J_+J_- + J_-J_+)/2$ with $[a, a^\\dagger] = 1$")
-    d.step("jy_on_a", commutator(to_bosons(J.y), MODE_A.create), I*MODE_B.create/2,
+    d.step("jy_on_a", commutator_side(to_bosons(J.y), MODE_A.create), I*MODE_B.create/2,
            "$J_y = (a^\\dagger b - b^\\dagger a)/2i$")
-    d.step("jy_on_b", commutator(to_bosons(J.y), MODE_B.create), -I*MODE_A.create/2,
+    d.step("jy_on_b", commutator_side(to_bosons(J.y), MODE_B.create), -I*MODE_A.create/2,
            "the same for $b^\\dagger$")
     on_fock = fock_inner(fock_bra(2, 1), apply_bosons(to_bosons(J.squared), fock_ket(2, 1)))
-    d.step("casimir_value", on_fock, J_ION*(J_ION + 1), "$n_a + n_b = 3$: $j = 3/2$")
+    d.step("casimir_value", written(r"\langle 2, 1|\Phi(\mathbf{J}^2)|2, 1\rangle", on_fock),
+           Mul(J_ION, J_ION + 1, evaluate=False), "$n_a + n_b = 3$: $j = 3/2$")
     # the stored-results grammar has no names for boson operators: store the number
     d.result("casimir_on_fock_2_1", on_fock)
 
@@ -104,12 +107,17 @@ def calyxium_d_matrix(d):
             element = fock_inner(fock_bra(int(j + mp), int(j - mp)), state)
             column.append(element)
             tag = f"{_tag(mp)}_{_tag(m)}"
-            d.step(f"d_{tag}", element, small_d(j, mp, m, beta),
-                   f"boson picture vs the rotation module, m' = {mp}, m = {m}")
+            fock = written(rf"\langle {int(j + mp)}, {int(j - mp)}|R_y(\beta)|{int(j + m)}, {int(j - m)}\rangle",
+                           element)
+            d.step(f"d_{tag}", fock, RotationElement(j, mp, m, 0, beta, 0),
+                   f"boson picture ($R_y(\\beta) = e^{{-i\\beta J_y}}$ on Fock kets $|n_a, n_b\\rangle$) "
+                   f"vs the rotation module, m' = {mp}, m = {m}")
             d.then(f"wigner_{tag}", wigner_sum(j, mp, m), "Wigner's explicit sum")
-        d.step(f"unitary_{_tag(m)}", Add(*[e**2 for e in column]), 1,
+        d.step(f"unitary_{_tag(m)}", written(rf"\sum_{{m'}} \bigl(d^{{3/2}}_{{m',{m}}}(\beta)\bigr)^2",
+                                             Add(*[e**2 for e in column])), 1,
                f"the rotated ket of m = {m} has unit norm")
-    d.step("top_corner", fock_inner(fock_bra(3, 0), rotated_ket(j, Rational(1, 2))),
+    d.step("top_corner", written(r"\langle 3, 0|R_y(\beta)|2, 1\rangle",
+                                 fock_inner(fock_bra(3, 0), rotated_ket(j, Rational(1, 2)))),
            -sqrt(3)*cos(beta/2)**2*sin(beta/2),
            "$d^{3/2}_{3/2,1/2} = -\\sqrt3\\cos^2(\\beta/2)\\sin(\\beta/2)$ (Sakurai's table; from memory)")
     d.result("d_p3_p1", expand(fock_inner(fock_bra(3, 0), rotated_ket(j, Rational(1, 2)))))

@@ -22,11 +22,12 @@ with D = D_zz - (D_xx + D_yy)/2 and E = (D_xx - D_yy)/2 (e.g. Abragam and Bleane
 ch. 3; from memory), and on the S = 3/2 quartet the rank-0 part is a constant shift.
 """
 
-from sympy import Add, I, Integer, Rational, eye, symbols
+from sympy import Add, I, Identity, Integer, Matrix, Rational, sqrt, symbols
 
 from amalgebra.algebra import AngularMomentum
-from amalgebra.derivations import derivation
+from amalgebra.derivations import derivation, written
 from amalgebra.matrices.explicit import to_matrix
+from amalgebra.states.hamiltonian import hamiltonian_matrix
 from amalgebra.tensors import decompose, recombine
 
 S = AngularMomentum("S")
@@ -65,10 +66,10 @@ def symmetric_decomposition(d):
     equality proved in the canonical form; the sum of the parts is $H$ again."""
     H = spin_hamiltonian(symmetric_D())
     parts = decompose(H, labels=("S",))
-    d.step("rank_count", Integer(len(parts)), 2,
+    d.step("rank_count", written(r"\#\{k : H^{(k)} \neq 0\}", Integer(len(parts))), 2,
            "two nonzero ranks, 0 and 2 below (rank 1 needs an antisymmetric part of $D$)")
     trace = Dxx + Dyy + Dzz
-    d.step("rank0", parts[0][0], trace*S.squared/3, "isotropic part $\\tfrac13\\mathrm{tr}D\\,S^2$")
+    d.step("rank0", written("H^{(0)}_{0}", parts[0][0]), trace*S.squared/3, "isotropic part $\\tfrac13\\mathrm{tr}D\\,S^2$")
     expected = {
         2: (Dxx - Dyy - 2*I*Dxy)*S.plus**2/4,
         1: (Dxz - I*Dyz)*(S.plus*S.z + S.z*S.plus)/2,
@@ -77,7 +78,7 @@ def symmetric_decomposition(d):
         -2: (Dxx - Dyy + 2*I*Dxy)*S.minus**2/4,
     }
     for q in (2, 1, 0, -1, -2):
-        d.step(f"rank2_q{_tag(q)}", parts[2][q], expected[q],
+        d.step(f"rank2_q{_tag(q)}", written(f"H^{{(2)}}_{{{q}}}", parts[2][q]), expected[q],
                f"weight $q = {q}$: $D^{{(2)}}_{{-q}}$ times $T^{{(2)}}_q(S)$ up to sign, written out")
     d.step("recombined", recombine(parts), H, "the parts add up to $\\mathbf{S}\\cdot D\\cdot\\mathbf{S}$")
     d.result("rank0", parts[0][0])
@@ -94,9 +95,9 @@ def antisymmetric_part(d):
     D = symmetric_D()
     D["y", "x"], D["z", "x"], D["z", "y"] = Dyx, Dzx, Dzy
     parts = decompose(spin_hamiltonian(D), labels=("S",))
-    d.step("rank1_q0", parts[1][0], I*(Dxy - Dyx)*S.z/2, "$[S_x, S_y] = i S_z$")
+    d.step("rank1_q0", written("H^{(1)}_{0}", parts[1][0]), I*(Dxy - Dyx)*S.z/2, "$[S_x, S_y] = i S_z$")
     vector = I*((Dyz - Dzy)*S.x + (Dzx - Dxz)*S.y + (Dxy - Dyx)*S.z)/2
-    d.step("rank1_total", Add(*[parts[1][q] for q in (1, 0, -1)]), vector,
+    d.step("rank1_total", written(r"\sum_q H^{(1)}_{q}", Add(*[parts[1][q] for q in (1, 0, -1)])), vector,
            "$\\tfrac{i}{2}\\,\\epsilon_{abc}(D_{ab} - D_{ba})/2\\,S_c$ summed")
     d.result("rank1_q0", parts[1][0])
 
@@ -112,14 +113,26 @@ def principal_frame(d):
     parts = decompose(spin_hamiltonian(D), labels=("S",))
     rank2 = Add(*[parts[2][q] for q in (2, 1, 0, -1, -2)])
     d_zfs, e_zfs = Dzz - (Dxx + Dyy)/2, (Dxx - Dyy)/2
-    d.step("D_E_form", rank2, d_zfs*(S.z**2 - S.squared/3) + e_zfs*(S.x**2 - S.y**2),
+    d.step("D_E_form", written(r"\sum_q H^{(2)}_{q}", rank2), d_zfs*(S.z**2 - S.squared/3) + e_zfs*(S.x**2 - S.y**2),
            "sum of the $q = 0, \\pm2$ parts ($q = \\pm1$ vanish)")
     quartet = {"S": S_QUARTET}
-    d.step("rank0_shift", parts[0][0], Rational(5, 4)*(Dxx + Dyy + Dzz), "$S(S+1) = 15/4$",
+    d.step("rank0_shift", written("H^{(0)}_{0}", parts[0][0]), Rational(5, 4)*(Dxx + Dyy + Dzz), "$S(S+1) = 15/4$",
            j=quartet)
     m2 = to_matrix(rank2, j=quartet, kind="exact")
-    d.step("rank2_traceless", m2.trace(), 0, "trace over the quartet")
+    d.step("rank2_traceless", written(r"\operatorname{tr}_{S=3/2} \textstyle\sum_q H^{(2)}_{q}", m2.trace()), 0,
+           "trace over the quartet")
     m0 = to_matrix(parts[0][0], j=quartet, kind="exact")
-    d.step("rank0_matrix", m0, Rational(5, 4)*(Dxx + Dyy + Dzz)*eye(4), "explicit $4\\times4$ matrix")
+    d.step("rank0_matrix", written(r"H^{(0)}_{0}\big|_{S=3/2}", m0), Rational(5, 4)*(Dxx + Dyy + Dzz)*Identity(4),
+           "explicit $4\\times4$ matrix, $\\mathbb{I}$ the identity")
     d.result("D_zfs", d_zfs)
     d.result("E_zfs", e_zfs)
+    # the zero-field splitting matrix in the quartet basis |3/2, m>_S, against the one
+    # written out by hand (Abragam and Bleaney 1970, ch. 3; from memory)
+    D_, E_ = symbols("D E", real=True)
+    zfs = hamiltonian_matrix(D_*(S.z**2 - S.squared/3) + E_*(S.x**2 - S.y**2), quartet)
+    r3 = sqrt(3)*E_
+    by_hand = Matrix([[D_, 0, r3, 0], [0, -D_, 0, r3], [r3, 0, -D_, 0], [0, r3, 0, D_]])
+    d.step("zfs_matrix", written(r"H_{\mathrm{ZFS}}\big|_{S=3/2}", by_hand), zfs,
+           "$D(S_z^2 - S^2/3) + E(S_x^2 - S_y^2)$ on the quartet, rows and columns labelled by "
+           "the basis kets; $E$ couples $m$ to $m \\pm 2$ only")
+    d.result("zfs_matrix_quartet", zfs)

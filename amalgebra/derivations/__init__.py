@@ -4,6 +4,8 @@ A group's derivations become a test suite that typesets itself:
 
 * :mod:`~amalgebra.derivations.record` -- ``@derivation`` functions with named,
   justified, engine-checked steps and named results;
+* :mod:`~amalgebra.derivations.written` -- step sides as the author writes them
+  (unevaluated symbols, ``written(tex, value)``) and the values the engine compares;
 * :mod:`~amalgebra.derivations.checks` -- how a step is checked (canonical operator
   form, exact matrices, ``simplify``, and a clearly labelled numerical fallback);
 * :mod:`~amalgebra.derivations.store` -- the stored-results text format (data, never
@@ -35,9 +37,10 @@ from .record import Derivation, DerivationRecord, StepRecord, Steps, derivation
 from .regression import Comparison, compare_entry, compare_record, compare_value
 from .runner import FileOutcome, RunOutcome, discover, record_folder, run_folder
 from .store import StoredEntry, StoredResults, load_results, results_path, write_results
+from .written import Written, written
 
 __all__ = [
-    "derivation", "Derivation", "Steps", "StepRecord", "DerivationRecord",
+    "derivation", "Derivation", "Steps", "StepRecord", "DerivationRecord", "written", "Written",
     "Check", "check_equality",
     "derivation_latex", "report_latex",
     "Comparison", "compare_value", "compare_entry", "compare_record",

@@ -28,11 +28,12 @@ therefore tries, in order, and reports which one decided:
     than :attr:`Budget.seconds` of wall time): ``equal`` is ``None`` and the
     comparison fails with a message saying so.
 
-The wall-time bound is enforced by a timer (``signal.setitimer``) when called from the
-main thread of a POSIX process, which interrupts any SymPy routine; elsewhere the size
-bounds (with a lower operator degree) keep every step small, and the clock is checked
-between steps.  An existing ``SIGALRM`` timer (pytest-timeout's, say) is restored
-afterwards.
+The wall-time bound is enforced by the package's one interrupting timer
+(:mod:`amalgebra._deadline`, ``signal.setitimer``) when called from the main thread of a
+POSIX process, which interrupts any SymPy routine; elsewhere the size bounds (with a
+lower operator degree) keep every step small, and the clock is checked between steps.
+An existing ``SIGALRM`` timer (pytest-timeout's, say) keeps its time: it fires first if
+it ends first, and is restored afterwards.
 
 Examples
 ========
@@ -54,10 +55,9 @@ False
 import contextlib
 import math
 import random
-import signal
-import threading
-import time
 from dataclasses import dataclass
+
+from .._deadline import Deadline, DeadlineExpired, armed
 
 __all__ = ["Budget", "Decision", "decide_equal", "DEFAULT_BUDGET"]
 
@@ -103,53 +103,10 @@ class Decision:
         return self.method in ("structure", "normal form")
 
 
-class _OutOfTime(BaseException):
-    """Raised by the timer; a BaseException so that SymPy's ``except Exception`` lets it out."""
-
-
-class _Clock:
-    def __init__(self, seconds):
-        self.seconds = seconds
-        self.end = time.monotonic() + seconds
-        self.hard = False
-
-    def check(self):
-        if time.monotonic() > self.end:
-            raise _OutOfTime
-
-
-@contextlib.contextmanager
-def _timer(clock):
-    """Interrupt the block when the clock runs out (main thread, POSIX); else no-op."""
-    usable = (hasattr(signal, "setitimer") and threading.current_thread() is threading.main_thread())
-    if not usable:
-        yield
-        return
-    try:
-        previous_handler = signal.getsignal(signal.SIGALRM)
-    except (ValueError, OSError):
-        yield
-        return
-
-    def fire(signum, frame):
-        raise _OutOfTime
-
-    started = time.monotonic()
-    signal.signal(signal.SIGALRM, fire)
-    # Re-fire every 50 ms in case a bare ``except:`` somewhere swallowed the first one.
-    previous_timer = signal.setitimer(signal.ITIMER_REAL, max(clock.end - started, 1e-3), 0.05)
-    clock.hard = True
-    try:
-        yield
-    finally:
-        signal.setitimer(signal.ITIMER_REAL, 0)
-        # None: a handler installed outside Python; the default is the closest we can restore
-        signal.signal(signal.SIGALRM, signal.SIG_DFL if previous_handler is None
-                      else previous_handler)
-        clock.hard = False
-        if previous_timer[0] > 0:  # give an outer timer (pytest-timeout's) its remaining time
-            left = previous_timer[0] - (time.monotonic() - started)
-            signal.setitimer(signal.ITIMER_REAL, max(left, 1e-3), previous_timer[1])
+# One timer for the whole package (amalgebra._deadline): nests, and respects an outer SIGALRM timer.
+_OutOfTime = DeadlineExpired
+_Clock = Deadline
+_timer = armed
 
 
 def decide_equal(a, b, *, budget=None, seed="", clock=None):
@@ -179,7 +136,9 @@ def decide_equal(a, b, *, budget=None, seed="", clock=None):
     try:
         with context:
             return _decide(a, b, budget, seed, clock)
-    except _OutOfTime:
+    except DeadlineExpired as exc:
+        if exc.deadline is not clock:       # an enclosing deadline: its owner handles it
+            raise
         return Decision(None, "budget", f"not decided within the time budget of "
                                         f"{clock.seconds:g} s")
     except RecursionError:

@@ -93,20 +93,26 @@ class Check:
     exact : whether a pass is an exact statement (False for ``"numeric"``).
     detail : human-readable context (the ``j`` values, points and tolerance, or why
         the method could not decide).
+    evaluated : whether the sides were evaluated first (see
+        :func:`amalgebra.derivations.written.side_value`): the step is printed as
+        written and checked on the values.
     """
 
     method: str
     passed: bool
     exact: bool
     detail: str = ""
+    #: the sides were evaluated (``doit``, a written value, a matrix element) before the check
+    evaluated: bool = False
 
     def summary(self):
         """One phrase for reports, e.g. ``'exact (matrices at J=1)'``."""
+        after = "; written sides evaluated" if self.evaluated else ""
         if not self.passed:
-            return f"FAILED ({self.method}{': ' + self.detail if self.detail else ''})"
+            return f"FAILED ({self.method}{': ' + self.detail if self.detail else ''}{after})"
         if not self.exact:
-            return f"checked numerically ({self.detail})"
-        return f"exact ({self.method}{' ' + self.detail if self.detail else ''})"
+            return f"checked numerically ({self.detail}{after})"
+        return f"exact ({self.method}{' ' + self.detail if self.detail else ''}{after})"
 
 
 def _is_operator(expr):
@@ -203,7 +209,12 @@ def check_equality(lhs, rhs, *, j=None, also_at=(), exact=False, seed="",
     Parameters
     ==========
 
-    lhs, rhs : sympy.Expr or sympy.Matrix
+    lhs, rhs : sympy.Expr or sympy.Matrix, as written
+        Unevaluated coupling symbols, factorials, sums and matrix expressions without
+        free symbols, ``bra * op * ket`` matrix elements and
+        :func:`~amalgebra.derivations.written.written` sides are evaluated first
+        (:func:`~amalgebra.derivations.written.side_value`); the checks then say
+        ``written sides evaluated``.
     j : dict, optional
         ``{label: j}``: the statement is claimed on these representations only and is
         checked on exact matrices.
@@ -231,6 +242,20 @@ def check_equality(lhs, rhs, *, j=None, also_at=(), exact=False, seed="",
     >>> check_equality(gamma(n + 1), n*gamma(n))[0].summary()
     'exact (simplify)'
     """
+    from dataclasses import replace
+
+    from .written import side_value
+
+    lhs_value, rhs_value = side_value(lhs), side_value(rhs)
+    checks = _check_values(lhs_value, rhs_value, j=j, also_at=also_at, exact=exact, seed=seed,
+                           points=points, tolerance=tolerance)
+    if lhs_value is lhs and rhs_value is rhs:
+        return checks
+    # the report prints the sides as written; say that the verdict is on their values
+    return tuple(replace(c, evaluated=True) for c in checks)
+
+
+def _check_values(lhs, rhs, *, j, also_at, exact, seed, points, tolerance):
     from sympy import Basic, Integer, MatrixBase, expand, simplify
 
     if isinstance(lhs, int) and not isinstance(lhs, bool):

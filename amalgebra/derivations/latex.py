@@ -15,8 +15,10 @@ the engine's verdict of each tagged step::
 (a step stated with ``d.then`` continues the previous line's chain).  Long
 equations are broken across rows by :mod:`amalgebra.derivations.latex_layout`
 (a long left side on its own row, a sum at its terms, ``c \Bigl(...\Bigr)``);
-a matrix wider than a row is shown as the list of its nonzero entries (with a
-basis legend when the value carries a basis, e.g. an ``OperatorMatrix``).
+a matrix wider than a row is shown as the list of its nonzero entries; a matrix
+that carries its basis (an ``OperatorMatrix``) is set with the basis kets as row
+and column labels, by blocks when it is large, or as an entry list with a basis
+legend (the size rule of :mod:`amalgebra.derivations.latex_matrices`).
 Regression statuses of stored results are gathered in a summary table at the
 end of the report.  Expressions are printed by ``sympy.latex`` (operators print
 through their own ``_latex`` hooks).  Justifications and descriptions are plain
@@ -93,12 +95,11 @@ from sympy import latex
 from sympy.matrices import MatrixBase
 
 from .latex_layout import ROW_WIDTH, expression_rows, visible_width
+from .latex_matrices import _entry_rows as entry_rows, basis_matrix_rows
 
 #: A left side wider than this goes on its own row (the ``align`` column it sits in
 #: widens every row of the environment).
 LEFT_WIDTH = 16
-#: Separator of the entries a row of a matrix's entry list holds.
-_ENTRY_GAP = r",\quad "
 
 
 def _tex(expr):
@@ -130,49 +131,12 @@ def _matrix_parts(value):
     return None
 
 
-def _basis_legend(basis, width):
-    """Rows ``1: |...>, 2: |...>`` naming the basis states of rows and columns."""
-    items = [rf"{i + 1}\colon {_tex(state)}" for i, state in enumerate(basis)]
-    return _pack_items([r"\text{basis (rows and columns):}"] + items, width)
-
-
-def _pack_items(items, width):
-    rows, current, used = [], [], 0.0
-    for item in items:
-        w = visible_width(item) + 3
-        if current and used + w > width:
-            rows.append(_ENTRY_GAP.join(current) + ",")
-            current, used = [], 0.0
-        current.append(item)
-        used += w
-    if current:
-        rows.append(_ENTRY_GAP.join(current))
-    return rows
-
-
-def _matrix_rows(matrix, basis, width):
-    """Rows of a matrix: whole when it fits, else its nonzero entries ``M_{i,j} = x``."""
+def _matrix_rows(matrix, width):
+    """Rows of a plain matrix: whole when it fits, else its nonzero entries ``M_{i,j} = x``."""
     tex = _tex(matrix)
-    if visible_width(tex) <= width and basis is None:
+    if visible_width(tex) <= width:
         return [tex]
-    n, m = matrix.shape
-    rows = [rf"\text{{{n} $\times$ {m} matrix, nonzero entries (row, column):}}"]
-    items = []
-    for i in range(n):
-        for j in range(m):
-            if matrix[i, j] != 0:
-                head = rf"M_{{{i + 1},{j + 1}}} = "
-                parts = expression_rows(matrix[i, j], width - 2, visible_width(head))
-                if len(parts) == 1:
-                    items.append(head + parts[0])
-                else:  # a long entry: its own rows
-                    rows.extend(_pack_items(items, width) if items else [])
-                    items = []
-                    rows.extend([head + parts[0]] + parts[1:])
-    rows.extend(_pack_items(items, width) if items else [r"\text{(all entries zero)}"])
-    if basis is not None:
-        rows.extend(_basis_legend(basis, width))
-    return rows
+    return entry_rows(matrix, None, width)
 
 
 def value_rows(value, width=ROW_WIDTH, lead_width=0.0):
@@ -187,8 +151,10 @@ def value_rows(value, width=ROW_WIDTH, lead_width=0.0):
     ('\\text{30 $\\times$ 30 matrix, nonzero entries (row, column):}', 'M_{1,1} = a_{0},\\quad M_{2,2} = a_{1},\\quad M_{3,3} = a_{2},\\quad M_{4,4} = a_{3},')
     """
     parts = _matrix_parts(value)
+    if parts is not None and parts[1] is not None:
+        return basis_matrix_rows(parts[0], parts[1], value, width)
     if parts is not None:
-        return _matrix_rows(parts[0], parts[1], width)
+        return _matrix_rows(parts[0], width)
     return expression_rows(value, width, lead_width)
 
 
@@ -248,11 +214,15 @@ def _results_block(record):
     groups = []
     for name, value in record.results.items():
         label = rf"\text{{{escape_text(name)}}}"
-        if visible_width(label) > LEFT_WIDTH:
+        parts = _matrix_parts(value)
+        beside = value_rows(value, ROW_WIDTH - visible_width(label) - 1)
+        if visible_width(label) > LEFT_WIDTH or (parts is not None and parts[1] is not None
+                                                 and len(beside) > 1):
+            # a long name, or a matrix with its basis that needs more than one row: the
+            # whole width under the name (blocks and labelled arrays fit more often)
             rows = [f"&{label}:"] + [rf"&\quad {r}" for r in value_rows(value, ROW_WIDTH - 2)]
         else:
-            rest = value_rows(value, ROW_WIDTH - visible_width(label) - 1)
-            rows = [rf"{label} &: {rest[0]}"] + [f"&{r}" for r in rest[1:]]
+            rows = [rf"{label} &: {beside[0]}"] + [f"&{r}" for r in beside[1:]]
         groups.append((rows, None))
     return _align(groups).replace("{align}", "{align*}").replace(r" \notag", "")
 
@@ -348,19 +318,49 @@ def _breakable_tt(name):
 
 
 def summary_latex(files):
-    """The regression summary: one table row per stored result (derivation, result, status)."""
+    r"""The regression summary: the count of each status, then one table row per stored
+    result (derivation, result, status), a ``longtable`` that continues across pages.
+
+    >>> class C:
+    ...     derivation, result, status = "pair", "energy", "identical"
+    >>> class F:
+    ...     comparisons, load_error = [C()], None
+    >>> print(summary_latex([F()]).splitlines()[1])
+    1 stored result compared: 1 identical.
+    """
     rows = [(c.derivation, c.result, c.status) for f in files for c in f.comparisons]
     lines = [r"\section*{Regression summary}"]
+    unloaded = [f.name for f in files if getattr(f, "load_error", None) is not None]
     if not rows:
         lines.append("No stored results were compared.")
+    else:
+        counts = {}
+        for _, _, status in rows:  # in order of first appearance: deterministic
+            counts[status] = counts.get(status, 0) + 1
+        tally = ", ".join(f"{n} {escape_text(status)}" for status, n in counts.items())
+        noun = "result" if len(rows) == 1 else "results"
+        lines.append(f"{len(rows)} stored {noun} compared: {tally}.")
+    if unloaded:
+        lines.append(r"\par Files that could not be loaded (counted as errors): "
+                     + ", ".join(_breakable_tt(name) for name in unloaded) + ".")
+    if not rows:
         return "\n".join(lines)
-    lines.append(r"\begin{tabular}{p{0.40\textwidth}p{0.36\textwidth}p{0.15\textwidth}}")
-    lines.append(r"\textbf{derivation} & \textbf{result} & \textbf{status}\tabularnewline\hline")
+    # widths plus six \tabcolsep (6 pt each) stay inside \textwidth
+    lines.append(r"\begin{longtable}{p{0.38\textwidth}p{0.34\textwidth}p{0.15\textwidth}}")
+    head = r"\textbf{derivation} & \textbf{result} & \textbf{status}\tabularnewline\hline"
+    lines += [head, r"\endhead"]
     for derivation_name, result, status in rows:
         lines.append(rf"\raggedright {_breakable_tt(derivation_name)} & \raggedright "
                      rf"{_breakable_tt(result)} & {escape_text(status)}\tabularnewline")
-    lines.append(r"\end{tabular}")
+    lines.append(r"\end{longtable}")
     return "\n".join(lines)
+
+
+#: article's \subsection with ragged-right titles: a long title in bold 12 pt does not
+#: stick out into the margin when TeX finds no good hyphenation
+_RAGGED_TITLES = (r"\makeatletter\renewcommand\subsection{\@startsection{subsection}{2}{\z@}"
+                  r"{-3.25ex\@plus -1ex \@minus -.2ex}{1.5ex \@plus .2ex}"
+                  r"{\normalfont\large\bfseries\raggedright}}\makeatother")
 
 
 def report_latex(files, title="Derivations"):
@@ -368,11 +368,16 @@ def report_latex(files, title="Derivations"):
 
     ``files`` is a sequence of :class:`~amalgebra.derivations.runner.FileOutcome`
     (anything with ``name``, ``records``, ``comparisons`` and ``load_error``).
-    Compiles with ``pdflatex`` using only ``amsmath``; the regression statuses
-    of stored results are in a summary table at the end.
+    Compiles with ``pdflatex`` using only ``amsmath``, ``amssymb`` (the
+    ``\\mathbb{I}`` of an identity matrix) and ``longtable`` (the summary), all in
+    TeX Live's base set; the regression statuses of stored results are in a summary
+    section at the end.
     """
     parts = [r"\documentclass{article}", r"\usepackage{amsmath}",
-             r"\allowdisplaybreaks", r"\begin{document}",
+             r"\usepackage{amssymb}",
+             r"\usepackage{longtable}", r"\allowdisplaybreaks", _RAGGED_TITLES,
+             # rows of fractions in the 3j/6j/9j arrays and labelled matrices do not touch
+             r"\renewcommand{\arraystretch}{1.3}", r"\begin{document}",
              rf"\section*{{{escape_text(title)}}}"]
     for f in files:
         parts.append(rf"\section{{{_breakable_tt(f.name)}}}")

@@ -11,7 +11,11 @@ receives a :class:`Steps` object and states its steps in order:
 * ``d.step(name, lhs, rhs, because)`` states ``lhs = rhs`` with a one-line
   justification; the engine checks it at once (see :mod:`amalgebra.derivations.checks`)
   and a failing step stops the derivation with
-  :class:`~amalgebra.errors.DerivationStepError` naming the step and both sides;
+  :class:`~amalgebra.errors.DerivationStepError` naming the step and both sides.
+  The sides are printed as given: pass the left side as the author writes it (an
+  unevaluated ``Coupling6j(...)``, ``bra * op * ket``, or ``written(tex, value)``,
+  see :mod:`amalgebra.derivations.written`), not its value, and the result as the right
+  side; the engine compares their values;
 * ``d.then(name, rhs, because)`` continues a chain ``... = rhs`` from the previous
   right-hand side (rendered as a continued line of the same ``align``);
 * ``d.result(name, expr)`` names a result that is stored beside the file and compared
@@ -146,7 +150,9 @@ class Steps:
         ==========
 
         name : identifier of the step, unique in the derivation.
-        lhs, rhs : SymPy expressions (or matrices).
+        lhs, rhs : SymPy expressions (or matrices), as the author writes them
+            (unevaluated symbols and :func:`~amalgebra.derivations.written.written`
+            sides are evaluated for the check only).
         because : one-line justification, rendered as ``\\text{...}``; ``$...$`` inside
             it is passed to LaTeX as math.
         j : dict, optional
@@ -171,8 +177,9 @@ class Steps:
     def result(self, name, expr):
         """Name a result to be stored beside the file and compared on later runs.
 
-        ``expr`` is a SymPy expression, a matrix (kept as an ``ImmutableMatrix``), a
-        tuple or list (kept as a tuple), or a dict, nested freely (see
+        ``expr`` is a SymPy expression, a matrix (kept as an ``ImmutableMatrix``), an
+        ``OperatorMatrix``/``HamiltonianMatrix`` (stored with its basis), a tuple or
+        list (kept as a tuple), or a dict, nested freely (see
         :func:`amalgebra.derivations.store.encode_value`).  What the stored-results
         format cannot hold is refused at once.
         """
@@ -185,10 +192,12 @@ class Steps:
         if name in self._record.results:
             raise ValueError(f"result name={name!r} must be unique within derivation "
                              f"{self._record.name!r}")
-        storable = (Basic, MatrixBase, tuple, list, dict, Tuple, Dict)
+        from ..states.hamiltonian import OperatorMatrix
+
+        storable = (Basic, MatrixBase, tuple, list, dict, Tuple, Dict, OperatorMatrix)
         if not isinstance(expr, storable) or isinstance(expr, str):
             raise TypeError(f"result {name}={expr!r} must be a SymPy expression, matrix, "
-                            "tuple or dict")
+                            "operator matrix with its basis, tuple or dict")
         try:
             encode_value(expr, allow_text=False)  # refuse what the format cannot hold
         except StoredResultError as exc:

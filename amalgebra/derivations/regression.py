@@ -144,6 +144,20 @@ def _pairs(node, current, where, out):
         for i, (child, value) in enumerate(zip(node[1], current, strict=True)):
             _pairs(child, value, f"{where}[{i}]", out)
         return
+    if kind == "basis_matrix":
+        n = len(node[1])
+        basis = getattr(current, "basis", None)
+        matrix = getattr(current, "matrix", None)
+        if basis is None or not isinstance(matrix, MatrixBase) or len(basis) != n \
+                or matrix.shape != (n, n):
+            raise _Mismatch(f"{where or 'the value'}: stored a {n}x{n} matrix with its basis, "
+                            f"now {_describe(current)}")
+        for i, child in enumerate(node[1]):
+            out.append((f"{where}.basis[{i}]", child, basis[i]))
+        for r, row in enumerate(node[2]):
+            for c, child in enumerate(row):
+                out.append((f"{where}[{r}, {c}]", child, matrix[r, c]))
+        return
     if kind == "matrix":
         shape = (len(node[1]), len(node[1][0]) if node[1] else 0)
         if not isinstance(current, MatrixBase) or current.shape != shape:
@@ -182,6 +196,8 @@ def _describe(value):
 
     if isinstance(value, MatrixBase):
         return f"a {value.shape[0]}x{value.shape[1]} matrix"
+    if isinstance(getattr(value, "matrix", None), MatrixBase) and hasattr(value, "basis"):
+        return f"a {value.matrix.shape[0]}x{value.matrix.shape[1]} matrix with its basis"
     if isinstance(value, (tuple, list)):
         return f"a tuple of {len(value)}"
     if isinstance(value, dict):

@@ -20,12 +20,22 @@ it), restricted to a subset that a reviewer reads at a glance::
     ] }
     named = { dict = { upper = "3/2*A", lower = "-A" } }   # a dict with identifier keys
     by_F = { dict = [["3", "5/4*A"], ["2", "-7/4*A"]] }    # a dict with expression keys
+    Hz = { basis_matrix = [                        # a matrix in a basis of states
+        ["|1/2, 1/2>_S", "|1/2, -1/2>_S"],  # basis: rows and columns
+        ["b/2", "0"],
+        ["0", "-b/2"],
+    ] }
 
 * the ``format`` line comes before any section (``amalgebra-results-1`` files, which
   hold expressions only, are read too; files are written as ``amalgebra-results-2``);
 * one ``[section]`` per derivation and one ``name = value`` entry per result; section
   and result names are identifiers, never repeated; an entry starts on its own line and
   only arrays may continue on the following lines;
+* a ``basis_matrix`` (an :class:`~amalgebra.states.hamiltonian.OperatorMatrix` or
+  ``HamiltonianMatrix``: a square matrix with the states of its rows and columns) is
+  the list of the basis states, kets as the library prints them, then one row per
+  state; it is read back as an ``OperatorMatrix`` whose ``Basis`` takes its labels
+  (and, for product kets, the ``(j, m)`` per label) from the kets;
 * a leaf is a double-quoted string without ``"``, ``\\`` or control characters holding
   an expression in the grammar of :mod:`amalgebra.parsing` (what
   :func:`~amalgebra.parsing.to_text` writes; exact decimals included), or a bare
@@ -116,10 +126,11 @@ _BLANK_RE = re.compile(r"[ \t]*(?:#[^\n]*)?\Z")
 _TOKEN_RE = re.compile(rf'(?P<ws>[ \t]+|#[^\n]*)|(?P<nl>\n)|"(?P<str>{_LEAF_CHARS})"'
                        rf"|(?P<num>{_NUMBER})(?![0-9A-Za-z_.])|(?P<key>{_KEY})|(?P<punct>[\[\]{{}},=])")
 _LINE_END_RE = re.compile(r"[ \t]*(?:#[^\n]*)?(?:\r?\n|\Z)")
-_TAGS = ("tuple", "matrix", "dict")
+_TAGS = ("tuple", "matrix", "dict", "basis_matrix")
 
 # A node of a stored value: ("expr", text, offset) | ("tuple", [node]) |
-# ("matrix", [[node]]) | ("table", [(str, node)]) | ("dict", [(node, node)]).
+# ("matrix", [[node]]) | ("table", [(str, node)]) | ("dict", [(node, node)])
+# | ("basis_matrix", [state node], [[node]]).
 # ``offset`` is the position of the leaf in the file (-1 for values not read from one).
 
 
@@ -470,14 +481,14 @@ class _Reader:
         if kind == "punct" and text == "{":
             return self._tagged(end, depth)
         if kind == "punct" and text == "[":
-            raise _Bad(start, 'a tagged value: { tuple = [...] }, { matrix = [[...]] } '
-                              "or { dict = ... } (a bare array has no kind)")
-        raise _Bad(start, 'a value: "expression", a number or { tuple|matrix|dict = ... }')
+            raise _Bad(start, 'a tagged value: { tuple = [...] }, { matrix = [[...]] }, '
+                              "{ basis_matrix = [...] } or { dict = ... } (a bare array has no kind)")
+        raise _Bad(start, 'a value: "expression", a number or { tuple|matrix|basis_matrix|dict = ... }')
 
     def _tagged(self, pos, depth):
         kind, tag, start, end = self._token(pos, False)
         if kind != "key" or tag not in _TAGS:
-            raise _Bad(start, "one of the tags tuple, matrix, dict")
+            raise _Bad(start, "one of the tags tuple, matrix, basis_matrix, dict")
         kind, text, start, end = self._token(end, False)
         if text != "=":
             raise _Bad(start, "= after the tag")
@@ -501,6 +512,8 @@ class _Reader:
                         raise _Bad(where, "a stored value as tuple item (a bare array has "
                                           "no kind)")
                 node = ("tuple", [item for item, _ in items])
+            elif tag == "basis_matrix":
+                node = self._basis_matrix(items, start)
             else:
                 node = ("matrix", self._rows(items, start))
         kind, text, start, end = self._token(end, False)
@@ -559,6 +572,24 @@ class _Reader:
         if item[0] != "array" or len(item[1]) != 2 or any(n[0] == "array" for n, _ in item[1]):
             raise _Bad(at, "a [key, value] pair in the dict")
         return (item[1][0][0], item[1][1][0])
+
+    @classmethod
+    def _basis_matrix(cls, items, at):
+        """``[[state, ...], [row], ...]``: the basis (rows and columns), then the square matrix."""
+        if not items:
+            raise _Bad(at, "[basis states], then one row per state in the basis_matrix")
+        basis = cls._rows(items[:1], at)[0]
+        expected = (f"{len(basis)} rows of {len(basis)} entries (one per basis state) "
+                    "in the basis_matrix")
+        try:
+            rows = cls._rows(items[1:], at)
+        except _Bad as exc:  # rows of unequal length: say what a basis_matrix needs
+            if exc.offset != at:  # a row that is not a row of expressions: as it is
+                raise
+            raise _Bad(at, expected) from None
+        if len(rows) != len(basis) or any(len(r) != len(basis) for r in rows):
+            raise _Bad(at, expected)
+        return ("basis_matrix", basis, rows)
 
     @staticmethod
     def _rows(items, at):
@@ -644,6 +675,14 @@ def decode_node(node, source=None):
 
         rows = [[_leaf_value(n, source) for n in row] for row in node[1]]
         return ImmutableMatrix(rows) if rows else ImmutableMatrix(0, 0, [])
+    if kind == "basis_matrix":
+        from sympy import ImmutableMatrix
+
+        from ..states.hamiltonian import OperatorMatrix
+
+        states = [_leaf_value(n, source) for n in node[1]]
+        rows = [[_leaf_value(n, source) for n in row] for row in node[2]]
+        return OperatorMatrix(ImmutableMatrix(rows), _basis_of(states))
     if kind == "table":
         return {name: decode_node(n, source) for name, n in node[1]}
     if kind == "dict":
@@ -661,12 +700,32 @@ def decode_node(node, source=None):
     raise StoredResultError(f"stored value: unknown node kind {kind!r}")
 
 
+def _basis_of(states):
+    """The :class:`~amalgebra.states.basis.Basis` of stored states: labels (and ``(j, m)``
+    per label for product kets) read off the kets themselves."""
+    from ..states.basis import Basis
+    from ..states.kets import _factor_map
+
+    try:
+        maps = [_factor_map(state) for state in states]
+    except (AttributeError, TypeError, ValueError):
+        maps = None
+    if maps and all(list(m) == list(maps[0]) for m in maps):
+        labels = tuple(maps[0])
+        return Basis(states, labels, [tuple(m[label] for label in labels) for m in maps])
+    labels = getattr(states[0], "labels", ()) if states else ()
+    if not all(getattr(state, "labels", ()) == labels for state in states):
+        labels = ()
+    return Basis(states, tuple(str(label) for label in labels))
+
+
 def _first_offset(node):
     """Offset of the first leaf of a node (-1 when it has none)."""
     kind = node[0]
     if kind == "expr":
         return node[2]
     children = {"tuple": lambda: node[1], "matrix": lambda: [n for r in node[1] for n in r],
+                "basis_matrix": lambda: node[1],
                 "table": lambda: [n for _, n in node[1]],
                 "dict": lambda: [n for pair in node[1] for n in pair]}[kind]()
     return _first_offset(children[0]) if children else -1
@@ -683,6 +742,10 @@ def node_text(node):
     if kind == "matrix":
         return "Matrix([" + ", ".join("[" + ", ".join(node_text(n) for n in row) + "]"
                                       for row in node[1]) + "])"
+    if kind == "basis_matrix":
+        return ("OperatorMatrix(basis=[" + ", ".join(node_text(n) for n in node[1]) + "], matrix=["
+                + ", ".join("[" + ", ".join(node_text(n) for n in row) + "]" for row in node[2])
+                + "])")
     if kind == "table":
         return "{" + ", ".join(f"{name}: {node_text(n)}" for name, n in node[1]) + "}"
     return "{" + ", ".join(f"{node_text(k)}: {node_text(v)}" for k, v in node[1]) + "}"
@@ -743,6 +806,17 @@ def encode_value(value, _depth=0, *, allow_text=True):
                 raise StoredResultError("matrix entries must be expressions to be stored")
             rows_out.append(row)
         return ("matrix", rows_out)
+    if _is_operator_matrix(value):
+        matrix, states = value.matrix, list(value.basis)
+        if matrix.shape != (len(states), len(states)) or not states:
+            raise StoredResultError(f"an operator matrix of shape {matrix.shape} with "
+                                    f"{len(states)} basis states cannot be stored (square, one "
+                                    "row and column per basis state)")
+        basis = [encode_value(state, _depth + 1, allow_text=allow_text) for state in states]
+        rows = encode_value(matrix, _depth + 1, allow_text=allow_text)[1]
+        if any(leaf[0] != "expr" for leaf in basis):
+            raise StoredResultError("basis states must be expressions to be stored")
+        return ("basis_matrix", basis, rows)
     if isinstance(value, (tuple, list, Tuple)):
         return ("tuple", [encode_value(v, _depth + 1, allow_text=allow_text) for v in value])
     if isinstance(value, (dict, Dict)):
@@ -772,6 +846,13 @@ def encode_value(value, _depth=0, *, allow_text=True):
                             "expression, matrix, tuple or dict")
 
 
+def _is_operator_matrix(value):
+    """An :class:`~amalgebra.states.hamiltonian.OperatorMatrix` (or ``HamiltonianMatrix``)."""
+    from ..states.hamiltonian import OperatorMatrix
+
+    return isinstance(value, OperatorMatrix)
+
+
 # ----------------------------------------------------------------------------- writing files
 
 _WIDTH = 100
@@ -786,6 +867,10 @@ def _inline(node):
     if kind == "matrix":
         return "{ matrix = [" + ", ".join("[" + ", ".join(_inline(n) for n in row) + "]"
                                           for row in node[1]) + "] }"
+    if kind == "basis_matrix":
+        return ("{ basis_matrix = [[" + ", ".join(_inline(n) for n in node[1]) + "], "
+                + ", ".join("[" + ", ".join(_inline(n) for n in row) + "]" for row in node[2])
+                + "] }")
     if kind == "table":
         return "{ dict = { " + ", ".join(f"{k} = {_inline(n)}" for k, n in node[1]) + " } }"
     return "{ dict = [" + ", ".join(f"[{_inline(k)}, {_inline(v)}]" for k, v in node[1]) + "] }"
@@ -797,6 +882,13 @@ def _entry_lines(name, node):
     if kind == "matrix" and node[1]:
         rows = ["    [" + ", ".join(_inline(n) for n in row) + "]," for row in node[1]]
         return [f"{name} = {{ matrix = ["] + rows + ["] }"]
+    if kind == "basis_matrix":
+        basis = ["    [" + ", ".join(_inline(n) for n in node[1]) + "],  # basis: rows and columns"]
+        if len(basis[0]) > _WIDTH:  # one state per line
+            basis = (["    [  # basis: rows and columns"] + [f"        {_inline(n)}," for n in node[1]]
+                     + ["    ],"])
+        rows = ["    [" + ", ".join(_inline(n) for n in row) + "]," for row in node[2]]
+        return [f"{name} = {{ basis_matrix = ["] + basis + rows + ["] }"]
     if len(one) <= _WIDTH or kind in ("expr", "table"):
         return [one]
     if kind == "tuple":

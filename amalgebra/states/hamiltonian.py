@@ -13,6 +13,8 @@ Explanation
   :func:`~amalgebra.matrices.explicit.to_matrix` too;
 * ``"coupled"``: coupled kets :math:`|((j_1 j_2) J_{12} \dots) F M\rangle` in
   the order of the labels, see :func:`~amalgebra.states.coupled.coupled_basis`;
+  with direct sums, each choice of one j per label is coupled in turn (the first
+  label's j outermost, each label's j in the order given);
 * a list of states (kets, coupled kets or combinations), which must be
   orthonormal (checked exactly; :class:`~amalgebra.errors.StateError` otherwise).
 
@@ -27,9 +29,19 @@ arithmetic), the :class:`~amalgebra.states.basis.Basis` (``.basis``), and the
 blocks: basis states are grouped by total :math:`M` (when each basis state
 has one); if the matrix has no element between different groups, :math:`M`
 is reported as conserved.  In a coupled basis the groups are refined by the
-total angular momentum :math:`F`, on a product basis by the :math:`j` of each
-label given a list of j values, and by the parity :math:`(-1)^{\sum l}` over the
-labels given several integer j (orbital states), when those are conserved too.  Within the
+total angular momentum :math:`F`; in any basis whose states have one j per
+label (product, coupled, or such user states) by the :math:`j` of each label
+given a list of j values, and by the **parity** :math:`(-1)^{\sum l}`, when
+those are conserved too.  Parity here is the sign of the orbital states under
+inversion, :math:`\prod (-1)^{l}`, summed over the labels taken as orbital:
+those given *several integer* j (a direct sum such as ``{"L": [0, 1, 2]}``).  A
+half-integer label is a spin (no orbital parity); a label with one j adds the
+same sign to every state, so it cannot split a block; an integer j that is a
+spin in your model (``{"S": [0, 1]}``) is counted too, and the "parity" reported
+is then :math:`(-1)^{\sum j}` over those labels.  Like the other quantum numbers
+it is reported only when the matrix has no element between different values
+(an odd tensor such as :math:`C^{(1)}` on ``L`` breaks it), and only when it
+splits a block that :math:`M`, :math:`F` and the j did not.  Within the
 groups, blocks are the connected components of the nonzero pattern.
 :meth:`HamiltonianMatrix.eigenvalues` returns the exact eigenvalues block by
 block as :class:`~amalgebra.states.eigen.Eigenvalues` objects, never ``None``:
@@ -82,9 +94,12 @@ References
 .. [1] G. Breit and I. I. Rabi, Phys. Rev. 38, 2082 (1931).
 """
 
+from itertools import product
+
 from sympy import Add, ImmutableMatrix, S, conjugate, expand_mul, eye, zeros
 from sympy.printing.defaults import Printable
 
+from .._deadline import Deadline
 from ..notation import NotationHooks
 from ..errors import StateError
 from ..qnumbers import half_integer
@@ -115,8 +130,10 @@ class Block:
         """The :class:`~amalgebra.states.eigen.Eigenvalues` of the block (never ``None``).
 
         Factors of the characteristic polynomial are solved exactly (cubic
-        and quartic formulas included) while ``time_budget`` seconds last;
-        what is left is listed in ``.unsolved`` with the reason.
+        and quartic formulas included) while ``time_budget`` seconds of wall
+        time last (default 10 s; ``None``: no limit).  The budget interrupts
+        whichever step is running (see :func:`~amalgebra.states.eigen.block_eigenvalues`);
+        what is left is listed in ``.unsolved`` and the step in ``.interrupted``, with the reason.
         """
         return block_eigenvalues(self.matrix, time_budget)
 
@@ -242,15 +259,19 @@ class HamiltonianMatrix(NotationHooks, OperatorMatrix):
     def eigenvalues(self, time_budget=DEFAULT_TIME_BUDGET):
         """``[(block, Eigenvalues), ...]`` in block order (see :meth:`Block.eigenvalues`).
 
-        ``time_budget`` (seconds) is shared by all blocks: once spent, the
-        cubic and quartic factors left are reported as unsolved.
+        ``time_budget`` (seconds of wall time, default 10; ``None``: no limit) is
+        shared by all blocks: each block gets what the blocks before it left.
+        Once it is spent, blocks of size 1 and 2 are still solved (they need no
+        budget); larger ones are returned at once, ``interrupted`` at their first step.
         """
         import time
 
-        end = time.perf_counter() + time_budget
+        if time_budget is None:
+            return [(blk, blk.eigenvalues(None)) for blk in self.blocks_]
+        end = Deadline(time_budget, "time_budget").end      # validates it
         out = []
         for blk in self.blocks_:
-            out.append((blk, blk.eigenvalues(max(0.0, end - time.perf_counter()))))
+            out.append((blk, blk.eigenvalues(max(0.0, end - time.monotonic()))))
         return out
 
 
@@ -365,9 +386,9 @@ def hamiltonian_matrix(op, js, basis="uncoupled", *, reduced=None, convention="e
             raise StateError(f"basis={basis!r} must be 'uncoupled', 'coupled' or a list of states")
         if len(labels) < 2:
             raise StateError("basis='coupled' needs at least two labels")
-        if any(len(spaces[label]) != 1 for label in labels):
-            raise StateError("basis='coupled' needs one j per label (a direct sum has no single coupling)")
-        states = coupled_basis([spaces[label][0] for label in labels], labels)
+        # a direct sum couples each choice of j (first label outermost, j in the order given)
+        states = [k for choice in product(*(spaces[label] for label in labels))
+                  for k in coupled_basis(list(choice), labels)]
         checked = True
     else:
         states = list(basis)
@@ -426,6 +447,24 @@ def _components(nonzero, indices):
     return sorted(groups.values())
 
 
+def _label_js(basis, qns):
+    """Per state ``{label: j}`` when every state has a definite j for every label, else ``None``."""
+    if basis.values is not None:
+        return [{label: qn[label][0] for label in basis.labels} for qn in qns]
+    out = []
+    for state in basis.states:
+        if isinstance(state, CoupledKet):
+            out.append(dict(zip(state.labels, state.js)))
+            continue
+        seen = {}
+        for b in components(state):
+            for label, (j, _) in _factor_map(b).items():
+                if seen.setdefault(label, j) != j:
+                    return None
+        out.append(seen)
+    return out
+
+
 def _candidates(basis):
     """``[(name, per-state value or None)]``: the quantum numbers a block may be labelled by."""
     n = len(basis)
@@ -437,17 +476,19 @@ def _candidates(basis):
     fs = [qn.get("F") for qn in qns]
     if all(f is not None for f in fs) and all(isinstance(s, CoupledKet) for s in basis.states):
         out.append(("F", fs))
-    if basis.values is not None:
+    jmaps = _label_js(basis, qns)
+    if jmaps is not None and n:
         orbital = []
-        for k, label in enumerate(basis.labels):
-            js = [qn[label][0] for qn in qns]
-            if len(set(js)) > 1:
-                out.append((f"j_{label}", js))
-                if all(j.is_integer for j in js):
-                    orbital.append(label)
+        for label in sorted(jmaps[0], key=_label_key):
+            js = [jm.get(label) for jm in jmaps]
+            if None in js or len(set(js)) < 2:
+                continue
+            out.append((f"j_{label}", js))
+            if all(j.is_integer for j in js):
+                orbital.append(label)
         if orbital:
-            # parity (-1)^(sum of l) over the labels given several integer j (orbital states)
-            out.append(("parity", [(-1) ** int(sum(qn[label][0] for label in orbital)) for qn in qns]))
+            # parity (-1)^(sum of l) over the orbital labels: those given several integer j (see hamiltonian_matrix)
+            out.append(("parity", [(-1) ** int(sum(jm[label] for label in orbital)) for jm in jmaps]))
     return out
 
 

@@ -103,17 +103,53 @@ def test_wide_matrix_becomes_a_table_of_nonzero_entries():
     assert value_rows(small) == [latex(small)]
 
 
-def test_matrix_with_a_basis_gets_a_legend():
+def test_small_matrix_with_a_basis_gets_row_and_column_labels():
     from amalgebra.states.basis import product_basis
 
     class Labelled:  # the shape of states.hamiltonian.OperatorMatrix: .matrix and .basis
         matrix = Matrix([[1, 0, 0], [0, 0, 0], [0, 0, -1]])
         basis = product_basis({"J": 1})
 
+    (tex,) = value_rows(Labelled())
+    assert tex.startswith(r"\begin{array}{r|ccc}")
+    head, body = tex.split(r"\hline", 1)
+    for state in Labelled.basis:                   # each ket heads a column and a row
+        label = r"{\scriptstyle %s}" % latex(state)
+        assert label in head and label in body
+    assert body.count(r"\\") == 2 and r" & -1 \end{array}" in tex
+
+
+def test_large_matrix_with_a_basis_gets_an_entry_list_and_a_legend():
+    from amalgebra.states.basis import product_basis
+
+    class Labelled:  # 9 x 9 (more than MAX_LABELLED) and no blocks
+        basis = product_basis({"J": 4})
+        matrix = Matrix.diag(*symbols("a0:9"))
+
     text = "".join(value_rows(Labelled()))
-    assert "M_{1,1} = 1" in text and "M_{3,3} = -1" in text
+    assert r"\begin{array}" not in text
+    assert "M_{1,1} = a_{0}" in text and "M_{9,9} = a_{8}" in text and "M_{1,2}" not in text
     assert "1\\colon " + latex(Labelled.basis[0]) in text
-    assert "3\\colon " + latex(Labelled.basis[2]) in text
+    assert "9\\colon " + latex(Labelled.basis[8]) in text
+
+
+def test_blocked_matrix_is_set_block_by_block():
+    from sympy import Rational
+
+    from amalgebra.algebra import AngularMomentum
+    from amalgebra.states.hamiltonian import hamiltonian_matrix
+
+    I, J = AngularMomentum("I"), AngularMomentum("J")
+    a = symbols("a")
+    hm = hamiltonian_matrix(a*(I.z*J.z + (I.plus*J.minus + I.minus*J.plus)/2),
+                            {"I": Rational(3, 2), "J": 1})        # 12 x 12, blocks of fixed M
+    rows = value_rows(hm)
+    text = "\n".join(rows)
+    assert "12 $\\times$ 12 matrix in 6 blocks of sizes 3, 2, 1" in text.replace("\n", " ").replace(
+        r"} \text{", " ")
+    assert r"M = \frac{3}{2}\colon" in text and r"\begin{array}" in text
+    assert r"\text{$1 \times 1$ blocks (basis state: value):}" in text
+    assert text.count(r"\begin{array}") == 4 and "M_{" not in text   # 2, 3, 3, 2: all as arrays
 
 
 def test_regression_status_in_a_summary_table():
@@ -261,3 +297,26 @@ def test_broken_rows_and_entry_tables_render_with_katex():
     done = subprocess.run([node, str(KATEX_DIR / "render.js")], input=json.dumps(sources),
                           capture_output=True, text=True, timeout=60, check=True)
     assert [(r["ok"], r.get("error")) for r in json.loads(done.stdout)] == [(True, None), (True, None)]
+
+
+def test_bundled_report_math_renders_with_katex():
+    # every display of the bundled examples' report, labelled matrix arrays and blocks included
+    node = shutil.which("node")
+    require_tool(node and (KATEX_DIR / "node_modules" / "katex").is_dir(),
+                 "KaTeX (npm install --prefix tests/derivations/katex)")
+    examples = HERE.parents[1] / "worked_examples"
+    report = report_latex(run_folder(examples).files, title="Worked examples")
+    sources = [e[0] for e in re.findall(r"(\\begin\{(align\*?)\}.*?\\end\{\2\})", report, flags=re.S)]
+    assert len(sources) > 50 and any(r"\begin{array}{r|" in s for s in sources)
+    done = subprocess.run([node, str(KATEX_DIR / "render.js")], input=json.dumps(sources),
+                          capture_output=True, text=True, timeout=300, check=True)
+    results = json.loads(done.stdout)
+    failures = [(src[:200], r["error"]) for src, r in zip(sources, results, strict=True) if not r["ok"]]
+    assert failures == []
+
+
+def test_wide_rectangular_matrix_lists_its_entries():
+    m = Matrix(3, 12, symbols("w0:36"))
+    text = "".join(value_rows(m, 39))
+    assert "3 $\\times$ 12 matrix" in text
+    assert "M_{1,12} = w_{11}" in text and "M_{3,12} = w_{35}" in text and "M_{3,1} = w_{24}" in text

@@ -6,27 +6,17 @@ These compile with pdflatex: skipped locally without it, a failure under CI=true
 
 import re
 import shutil
-import subprocess
 from pathlib import Path
 
-import pytest
 
-from amalgebra.cli import _build_pdf
-from amalgebra.derivations import report_latex, run_folder
+from amalgebra.cli import _build_pdf, main
 from amalgebra.testing.external import require_tool
 
 EXAMPLES = Path(__file__).resolve().parents[2] / "worked_examples"
 OVERFULL = re.compile(r"^Overfull \\hbox \(([0-9.]+)pt too wide\)(.*)$", re.M)
+OVERFULL_VBOX = re.compile(r"^Overfull \\vbox \(([0-9.]+)pt too high\)", re.M)
 #: the page-width budget of issue 15: nothing sticks out by more than this
 LIMIT_PT = 10.0
-
-
-def _pdflatex(tex_path):
-    done = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", tex_path.name],
-                          cwd=tex_path.parent, capture_output=True, text=True, timeout=300,
-                          check=False)
-    assert done.returncode == 0, done.stdout[-2000:]
-    return tex_path.with_suffix(".log").read_text(encoding="latin-1")
 
 
 def overfull_boxes(log):
@@ -41,17 +31,27 @@ def test_overfull_parser_reads_a_tex_log():
            "Underfull \\hbox (badness 10000) in paragraph at lines 1--2\n")
     assert overfull_boxes(log) == [(193.04869, "in paragraph at lines 9--10"),
                                    (2.5, "detected at line 382")]
+    tall = "Overfull \\vbox (285.10274pt too high) has occurred while \\output is active []\n"
+    assert OVERFULL_VBOX.findall(log + tall) == ["285.10274"]
 
 
-def test_bundled_examples_report_fits_the_page(tmp_path):
-    require_tool(shutil.which("pdflatex"), "pdflatex (apt: texlive-latex-base)")
+def test_bundled_examples_report_fits_the_page(tmp_path, capsys):
+    # what the README runs: `amalgebra report worked_examples -o report.tex` (TeX reruns)
+    require_tool(shutil.which("pdflatex") or shutil.which("latexmk"),
+                 "pdflatex (apt: texlive-latex-base)")
     tex = tmp_path / "report.tex"
-    tex.write_text(report_latex(run_folder(EXAMPLES).files, title="Worked examples"),
-                   encoding="utf-8")
-    log = _pdflatex(tex)
+    assert main(["report", str(EXAMPLES), "-o", str(tex), "-q"]) == 0, capsys.readouterr().err
+    pdf = tmp_path / "report.pdf"
+    assert pdf.stat().st_size > 10_000
+    log = tex.with_suffix(".log").read_text(encoding="latin-1")
+    assert "Output written on report.pdf" in log and "Rerun" not in log   # references settled
     wide = [(pt, where) for pt, where in overfull_boxes(log) if pt > LIMIT_PT]
     assert wide == []
-    assert (tmp_path / "report.pdf").stat().st_size > 10_000
+    assert OVERFULL_VBOX.findall(log) == []           # nothing runs off the bottom of a page
+    text = tex.read_text(encoding="utf-8")
+    summary = text.split("\\section*{Regression summary}", 1)[1]
+    assert re.search(r"\d+ stored results compared: \d+ identical\.", summary)
+    assert "identical" not in text.split("\\section*{Regression summary}", 1)[0]
 
 
 def test_build_pdf_reruns_until_references_settle(tmp_path):

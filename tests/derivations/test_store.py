@@ -158,7 +158,7 @@ TAMPERED = [
     ('a = "j*(j + 1)"', 'a = "72.2.2"', "5:10", "unexpected character"),
     ('b = "sqrt(2)/2 - I*m"', "b = 'single quotes'", "6:5", "expected a value"),
     ('b = "sqrt(2)/2 - I*m"', "b = [\"1\"]", "6:5", "a bare array has no kind"),
-    ('b = "sqrt(2)/2 - I*m"', 'b = { list = ["1"] }', "6:7", "tuple, matrix, dict"),
+    ('b = "sqrt(2)/2 - I*m"', 'b = { list = ["1"] }', "6:7", "tuple, matrix, basis_matrix, dict"),
     ('b = "sqrt(2)/2 - I*m"', 'b = "1" "2"', "6:9", "the end of the line"),
     ('b = "sqrt(2)/2 - I*m"', 'a = "j"', "6:1", "must appear only once (also on line 5)"),
     ('c = "Jz(J)^2"', 'c = "x\\u0022"', "9:7", 'the closing " of the string'),

@@ -158,12 +158,14 @@ def test_operator_matrix_not_closed():
 
 
 def test_eigenvalue_policy_and_js_forms():
-    # issue 11: never None; with no time budget the cubic factors are reported, explicitly, as unsolved
+    # issue 11: never None; with no time budget a 3 x 3 block is stopped, explicitly, before its
+    # characteristic polynomial; blocks of size <= 2 need no budget and are solved
     hm = hamiltonian_matrix(BREIT_RABI_H, [("I", 1), ("J", Rational(3, 2))])
     sizes = {blk.size: values for blk, values in hm.eigenvalues(time_budget=0)}
-    assert sizes[3] is not None and not sizes[3].complete and sizes[3].unsolved
+    assert sizes[3] is not None and not sizes[3].complete and sizes[3].unsolved == []
     assert sizes[3].degree == 3 and "budget" in sizes[3].reason
-    assert sizes[2].complete and sum(sizes[2].values()) == 2
+    assert sizes[3].interrupted == "characteristic polynomial" and sizes[3].charpoly is None
+    assert sizes[2].complete and sum(sizes[2].values()) == 2 and sizes[2].interrupted is None
     # with one symbol the characteristic polynomial is factored: A I.J has E(F) (interval rule above)
     hm = hamiltonian_matrix(A * dot(Iop, Jop), {"J": Rational(3, 2), "I": 1})
     for blk, values in hm.eigenvalues():
@@ -173,3 +175,81 @@ def test_eigenvalue_policy_and_js_forms():
             assert value in {A / 2 * (F * (F + 1) - 2 - Rational(15, 4)) for F in (h, 3 * h, 5 * h)}
     # the one basis order (README): labels sorted, the first (I) outermost, whatever the order of js
     assert str(hm.basis[0]) == "|1, 1>_I|3/2, 3/2>_J" and str(hm.basis[1]) == "|1, 1>_I|3/2, 1/2>_J"
+
+
+# --- parity blocks (issue 11, item 2) -------------------------------------------------------------
+
+PARITY_JS = {"L": [0, 1, 2], "S": h}
+
+
+def _l(state):
+    """l of a basis state, read from the state itself (CoupledKet.js or the L factor)."""
+    if hasattr(state, "js"):
+        return dict(zip(state.labels, state.js))["L"]
+    return next(k.j for k in state.args if k.label == "L")
+
+
+def _orbital_sign(state):
+    return (-1) ** int(_l(state))
+
+
+def _float_spectrum(hm, point):
+    # independent: numpy.linalg.eigvalsh
+    return np.linalg.eigvalsh(np.array(hm.matrix.subs(point).evalf(), dtype=float))
+
+
+def test_coupled_basis_of_a_direct_sum():
+    hm = hamiltonian_matrix(A * dot(Lop, Sop), PARITY_JS, basis="coupled")
+    assert hm.matrix.shape == (18, 18) and len(hm.basis) == 18
+    # spin-orbit: E = A/2 [J(J+1) - l(l+1) - 3/4] (Lande interval rule, from memory), diagonal here
+    for i, state in enumerate(hm.basis):
+        l = _l(state)
+        assert hm.matrix[i, i] == A / 2 * (state.J * (state.J + 1) - l * (l + 1) - Rational(3, 4))
+    assert hm.conserved == ("M", "F", "j_L")
+    # first choice of j outermost: the L = 0 states come first
+    assert [dict(zip(s.labels, s.js))["L"] for s in hm.basis][:2] == [0, 0]
+
+
+@pytest.mark.parametrize("basis", ["uncoupled", "coupled"])
+def test_parity_blocks_for_a_parity_conserving_tensor(basis):
+    from amalgebra.tensors import racah_tensor
+
+    C2 = racah_tensor(2)            # even rank: joins l = 0 and l = 2, never l of other parity
+    hm = hamiltonian_matrix(A * dot(Lop, Sop) + B * C2[0], PARITY_JS, basis=basis)
+    assert hm.conserved == ("M", "parity")            # j_L broken (0 <-> 2), parity kept
+    assert any({_l(hm.basis[i]) for i in blk.indices} == {0, 2} for blk in hm.blocks)   # l = 0 and 2 mixed
+    for blk in hm.blocks:
+        signs = {_orbital_sign(hm.basis[i]) for i in blk.indices}
+        assert signs == {blk.quantum_numbers["parity"]}
+    # no matrix element between states of different (-1)^l (read from the states, not from the blocks)
+    n = hm.matrix.shape[0]
+    assert all(hm.matrix[r, k] == 0 for r in range(n) for k in range(n)
+               if _orbital_sign(hm.basis[r]) != _orbital_sign(hm.basis[k]))
+    assert any(hm.matrix[r, k] != 0 for r in range(n) for k in range(n)
+               if r != k and _orbital_sign(hm.basis[r]) == _orbital_sign(hm.basis[k]))
+    point = {A: Rational(2, 3), B: Rational(-5, 7)}
+    unc = hamiltonian_matrix(A * dot(Lop, Sop) + B * C2[0], PARITY_JS)
+    assert np.allclose(_float_spectrum(hm, point), _float_spectrum(unc, point))
+
+
+@pytest.mark.parametrize("basis", ["uncoupled", "coupled"])
+def test_a_parity_odd_tensor_merges_the_parity_blocks(basis):
+    from amalgebra.tensors import racah_tensor
+
+    C1 = racah_tensor(1)            # odd rank: joins l = 0 <-> 1 and 1 <-> 2
+    hm = hamiltonian_matrix(A * dot(Lop, Sop) + B * C1[0], PARITY_JS, basis=basis)
+    assert "parity" not in hm.conserved and "j_L" not in hm.conserved
+    assert all("parity" not in blk.quantum_numbers for blk in hm.blocks)
+    assert any(len({_orbital_sign(hm.basis[i]) for i in blk.indices}) == 2 for blk in hm.blocks)
+
+
+def test_parity_is_not_offered_for_spins_or_single_j():
+    from amalgebra.tensors import racah_tensor
+
+    C2 = racah_tensor(2)
+    # one j for L: (-1)^l is the same for every state, so it cannot split anything
+    hm = hamiltonian_matrix(A * dot(Lop, Sop) + B * C2[0], {"L": 2, "S": h}, basis="coupled")
+    assert "parity" not in hm.conserved
+    # half-integer direct sum on S: a spin, no orbital parity
+    hs = hamiltonian_matrix(A * Sop.z, {"S": [h, Rational(3, 2)]})
+    assert hs.conserved == ("M", "j_S")
