@@ -103,12 +103,6 @@ class Decision:
         return self.method in ("structure", "normal form")
 
 
-# One timer for the whole package (amalgebra._deadline): nests, and respects an outer SIGALRM timer.
-_OutOfTime = DeadlineExpired
-_Clock = Deadline
-_timer = armed
-
-
 def decide_equal(a, b, *, budget=None, seed="", clock=None):
     """Decide ``a == b`` for two SymPy expressions within ``budget``; see the module docstring.
 
@@ -131,8 +125,8 @@ def decide_equal(a, b, *, budget=None, seed="", clock=None):
     a, b = (Integer(x) if isinstance(x, int) and not isinstance(x, bool) else x for x in (a, b))
     budget = DEFAULT_BUDGET if budget is None else budget
     own = clock is None
-    clock = _Clock(budget.seconds) if own else clock
-    context = _timer(clock) if own else contextlib.nullcontext()
+    clock = Deadline(budget.seconds) if own else clock
+    context = armed(clock) if own else contextlib.nullcontext()
     try:
         with context:
             return _decide(a, b, budget, seed, clock)

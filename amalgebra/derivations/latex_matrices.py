@@ -174,7 +174,7 @@ def _block_rows(matrix, states, blocks, conserved, width):
     sizes = sorted({b.size for b in blocks}, reverse=True)
     what = ", ".join(conserved) if conserved else "connected components"
     rows = _text_rows(f"{n} $\\times$ {n} matrix in {len(blocks)} blocks of sizes "
-                      f"{', '.join(str(s) for s in sizes)} ({escape(what)} conserved; the elements "
+                      f"{', '.join(str(s) for s in sizes)} ({_escape(what)} conserved; the elements "
                       "between blocks vanish):", width)
     singles = []
     for block in blocks:
@@ -202,7 +202,7 @@ def _block_rows(matrix, states, blocks, conserved, width):
     return rows
 
 
-def escape(text):
+def _escape(text):
     from .latex import escape_text
 
     return escape_text(text)

@@ -209,14 +209,15 @@ def _decide_leaves(derivation, result, pairs, source, budget, known=None):
     """Decide every changed leaf under one shared clock; return (verdict, method, detail)."""
     from ..errors import StoredResultError
     from ..parsing import to_text
-    from .budget import DEFAULT_BUDGET, Decision, _Clock, _OutOfTime, _timer, decide_equal
+    from .._deadline import Deadline, DeadlineExpired, armed
+    from .budget import DEFAULT_BUDGET, Decision, decide_equal
     from .store import decode_node
 
     budget = DEFAULT_BUDGET if budget is None else budget
-    clock = _Clock(budget.seconds)
+    clock = Deadline(budget.seconds)
     decisions = []
     try:
-        with _timer(clock):
+        with armed(clock):
             for where, node, current in pairs:
                 if node[1] == to_text(current, decimals=True):
                     continue
@@ -233,7 +234,9 @@ def _decide_leaves(derivation, result, pairs, source, budget, known=None):
                             decision.method, f"{where}: {decision.detail}" if where
                             else decision.detail)
                 decisions.append(decision)
-    except _OutOfTime:
+    except DeadlineExpired as exc:
+        if exc.deadline is not clock:       # an enclosing deadline: its owner handles it
+            raise
         return "undecided", "budget", f"not decided within the time budget of {budget.seconds:g} s"
     except RecursionError:
         return "undecided", "budget", "not decided: expression nested too deeply"

@@ -39,7 +39,7 @@ Examples
 ('\\dim V_{S=0}', 2)
 """
 
-__all__ = ["Written", "written", "commutator_side", "side_value", "is_evaluated_side"]
+__all__ = ["Written", "written", "commutator_side", "side_value"]
 
 
 class Written:
@@ -171,8 +171,3 @@ def side_value(side):
         value = side.replace(numeric_element, lambda e: e.doit())
         return side if value == side else value
     return side
-
-
-def is_evaluated_side(side):
-    """True when :func:`side_value` of ``side`` is not ``side`` itself (printed differently)."""
-    return side_value(side) is not side

@@ -244,12 +244,12 @@ def _solve(matrix, lam, symbols, limit, work, values, unsolved, reasons):
         coeff, factors = factor_list(expr, lam, *symbols) if symbols else factor_list(expr, lam)
     except (PolynomialError, NotImplementedError):
         coeff, factors = 1, [(expr, 1)]
-    factors = [(f, e) for f, e in factors if Poly(f, lam).degree() > 0]
-    factors.sort(key=lambda fe: (Poly(fe[0], lam).degree(), default_sort_key(fe[0])))
+    graded = sorted(((Poly(f, lam).degree(), default_sort_key(f), f, e) for f, e in factors), key=lambda g: g[:2])
+    graded = [(d, f, e) for d, _, f, e in graded if d > 0]
+    factors = [(f, e) for _, f, e in graded]
     charpoly = Mul(coeff, *[f ** e for f, e in factors], evaluate=False) if factors else expr
     work.update(charpoly=charpoly, factors=factors)
-    for k, (factor, mult) in enumerate(factors):
-        degree = Poly(factor, lam).degree()
+    for k, (degree, factor, mult) in enumerate(graded):
         work.update(step=f"roots of a degree-{degree} factor", done=k)
         if degree > 2:
             limit.check()

@@ -264,15 +264,10 @@ class HamiltonianMatrix(NotationHooks, OperatorMatrix):
         Once it is spent, blocks of size 1 and 2 are still solved (they need no
         budget); larger ones are returned at once, ``interrupted`` at their first step.
         """
-        import time
-
         if time_budget is None:
             return [(blk, blk.eigenvalues(None)) for blk in self.blocks_]
-        end = Deadline(time_budget, "time_budget").end      # validates it
-        out = []
-        for blk in self.blocks_:
-            out.append((blk, blk.eigenvalues(max(0.0, end - time.monotonic()))))
-        return out
+        shared = Deadline(time_budget, "time_budget")      # validates it
+        return [(blk, blk.eigenvalues(shared.remaining())) for blk in self.blocks_]
 
 
 def _read_js(js):
