@@ -101,3 +101,21 @@ def pytest_configure(config):
         config.pluginmanager.register(_SkipShims(), "amalgebra-skip-shims")
     if not config.pluginmanager.has_plugin("amalgebra-import-once"):
         config.pluginmanager.register(_ImportPackageModulesFirst(), "amalgebra-import-once")
+
+
+@pytest.fixture(autouse=True)
+def _no_deadline_left_armed():
+    """Every test leaves the interrupting timer (amalgebra._deadline) as it found it.
+
+    A guard left on the stack would keep SIGALRM firing into later tests, which would then fail
+    at random places; this makes such a leak fail the test that caused it.
+    """
+    yield
+    import sys
+    deadline = sys.modules.get("amalgebra._deadline")
+    if deadline is not None and deadline._stack:
+        left = list(deadline._stack)
+        deadline._stack.clear()
+        import signal
+        signal.setitimer(signal.ITIMER_REAL, 0)
+        pytest.fail(f"a deadline guard was left armed: {left}", pytrace=False)

@@ -10,7 +10,9 @@ whatever Python code is running (a SymPy routine included), through the real-tim
 interval timer (``signal.setitimer(ITIMER_REAL)``).  :class:`DeadlineExpired` is
 a ``BaseException`` so that library code catching ``Exception`` lets it out;
 the timer re-fires every 50 ms while the deadline stays expired, in case a bare
-``except:`` swallowed the first one.
+``except:`` swallowed the first one.  Python drops ("ignores") an exception raised
+inside a garbage-collector callback or a ``__del__`` method, so when the timer
+finds one of those running it does not raise there: it fires again 1 ms later.
 
 Rules of the one timer:
 
@@ -50,6 +52,7 @@ stopped: True True
 (inf, False)
 """
 
+import gc
 import math
 import numbers
 import os
@@ -61,6 +64,8 @@ __all__ = ["Deadline", "DeadlineExpired", "armed", "REFIRE_SECONDS"]
 
 #: seconds between repeated signals while a deadline stays expired
 REFIRE_SECONDS = 0.05
+#: the delay of the next signal when the interrupted frame would drop the exception
+_RETRY_SECONDS = 1e-3
 
 
 class DeadlineExpired(BaseException):
@@ -156,6 +161,22 @@ def _arm():
     signal.setitimer(signal.ITIMER_REAL, delay, REFIRE_SECONDS)
 
 
+def _would_drop(frame):
+    """True when an exception raised in ``frame`` would be dropped by the interpreter.
+
+    That is the case inside a garbage-collector callback (hypothesis installs one)
+    or a ``__del__`` method, anywhere up the chain of callers: the exception would
+    only be reported as "ignored" and the interrupted work would go on.
+    """
+    callbacks = {getattr(cb, "__code__", None) for cb in gc.callbacks}
+    while frame is not None:
+        code = frame.f_code
+        if code.co_name == "__del__" or code in callbacks:
+            return True
+        frame = frame.f_back
+    return False
+
+
 def _fire(signum, frame):
     now = time.monotonic()
     outer_end = _outer["end"]
@@ -173,6 +194,9 @@ def _fire(signum, frame):
         return
     for d in _stack:                                 # outermost first
         if now >= d.end:
+            if _would_drop(frame):
+                signal.setitimer(signal.ITIMER_REAL, _RETRY_SECONDS, REFIRE_SECONDS)
+                return
             raise DeadlineExpired(d, by_timer=True)
     _arm()                                           # early (re-fire after an exit): wait for the next end
 
