@@ -142,7 +142,42 @@ class _OperatorArithmetic:
         raise OperatorError(f"exponent={self} must not be an operator")
 
 
-class LabelledFamily(NotationHooks):
+class _FamilyNotOperator:
+    """Mixin of operator families: ``adjoint(J)`` names the problem instead of an AttributeError.
+
+    A family (``AngularMomentum("J")``, a spherical tensor, a vector operator, a
+    boson mode) is a container of operators, not an operator, so SymPy's
+    ``adjoint``, ``conjugate`` and ``transpose`` of it raise
+    :class:`~amalgebra.errors.OperatorError` pointing to the components.
+
+    >>> from sympy import adjoint
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> adjoint(AngularMomentum("J"))
+    Traceback (most recent call last):
+    ...
+    amalgebra.errors.OperatorError: adjoint of AngularMomentum('J'): a family of operators, not an operator; take it of a component such as J.plus
+    """
+
+    __slots__ = ()
+    #: a component to name in the message (``str.format`` with ``self``)
+    _component_example = "{self.label}.plus"
+
+    def _refuse(self, what):
+        example = self._component_example.format(self=self)
+        raise OperatorError(f"{what} of {self!r}: a family of operators, not an operator; take it of a "
+                            f"component such as {example}")
+
+    def _eval_adjoint(self):
+        self._refuse("adjoint")
+
+    def _eval_conjugate(self):
+        self._refuse("conjugate")
+
+    def _eval_transpose(self):
+        self._refuse("transpose")
+
+
+class LabelledFamily(_FamilyNotOperator, NotationHooks):
     """Base of the named containers of generators (an angular momentum, a boson mode).
 
     Explanation

@@ -107,6 +107,7 @@ class BosonMode(LabelledFamily, Basic):
     """
 
     __slots__ = ()
+    _component_example = "{self.label}.create"
     _notation_key = "boson_mode"
 
     def operator(self, kind):

@@ -91,15 +91,11 @@ def labelled_array(matrix, states, width, numbers=None):
 def matrix_blocks(value):
     """``(blocks, conserved)`` of a value that has blocks (``HamiltonianMatrix``,
     ``OperatorMatrix``), or ``None``."""
-    blocks = getattr(value, "blocks", None)
-    if blocks is None:
+    from ..states.hamiltonian import OperatorMatrix
+
+    if not isinstance(value, OperatorMatrix):
         return None
-    if callable(blocks):
-        blocks = blocks()
-    conserved = getattr(value, "conserved", ())
-    if isinstance(blocks, tuple) and len(blocks) == 2 and isinstance(blocks[1], (list, tuple)):
-        blocks, conserved = blocks
-    return list(blocks), tuple(conserved)
+    return list(value.blocks), tuple(value.conserved)
 
 
 def _pack(items, width):

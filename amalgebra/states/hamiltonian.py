@@ -147,7 +147,7 @@ class OperatorMatrix(Printable):
 
     ``sympify(obj)`` and ``obj._sympy_()`` give the matrix, so it enters SymPy
     Matrix arithmetic (``hm.matrix * v``, ``sympify(hm) * v``); :meth:`index`
-    and :meth:`select` pass through to the basis; :meth:`blocks` splits by
+    and :meth:`select` pass through to the basis; :attr:`blocks` splits by
     conserved quantum numbers.
 
     Examples
@@ -173,11 +173,12 @@ class OperatorMatrix(Printable):
     True
     """
 
-    __slots__ = ("matrix", "basis")
+    __slots__ = ("matrix", "basis", "_blocks", "_conserved")
 
     def __init__(self, matrix, basis):
         self.matrix = ImmutableMatrix(matrix)
         self.basis = basis if isinstance(basis, Basis) else Basis(basis, ())
+        self._blocks = self._conserved = None
 
     def _sympy_(self):
         return self.matrix
@@ -198,9 +199,23 @@ class OperatorMatrix(Printable):
         """The immutable submatrix on ``indices`` (rows and columns)."""
         return self.matrix.extract(list(indices), list(indices))
 
+    @property
     def blocks(self):
-        """``(blocks, conserved)``: diagonal blocks by conserved quantum numbers (module docstring)."""
-        return _find_blocks(self.matrix, self.basis)
+        """The diagonal blocks by conserved quantum numbers (a list of :class:`Block`; module docstring).
+
+        Found on first use; :attr:`conserved` names the quantum numbers they are labelled by.
+        """
+        if self._blocks is None:
+            blocks, conserved = _find_blocks(self.matrix, self.basis)
+            self._blocks, self._conserved = list(blocks), tuple(conserved)
+        return self._blocks
+
+    @property
+    def conserved(self):
+        """The conserved quantum numbers that label :attr:`blocks` (``("M",)``, ``("M", "parity")``, ...)."""
+        if self._conserved is None:
+            self.blocks
+        return self._conserved
 
     def __repr__(self):
         return f"OperatorMatrix(size={self.matrix.shape[0]}, basis={self.basis!r})"
@@ -240,21 +255,16 @@ class HamiltonianMatrix(NotationHooks, OperatorMatrix):
     True
     """
 
-    __slots__ = ("blocks_", "conserved")
+    __slots__ = ()
     _notation_key = "hamiltonian_matrix"
 
     def __init__(self, matrix, basis, blocks, conserved):
         OperatorMatrix.__init__(self, matrix, basis)
-        self.blocks_ = list(blocks)
-        self.conserved = tuple(conserved)
+        self._blocks = list(blocks)
+        self._conserved = tuple(conserved)
 
     def __repr__(self):
         return str(self)    # the summary of the notation hook, not OperatorMatrix's
-
-    @property
-    def blocks(self):
-        """The diagonal blocks (a list of :class:`Block`)."""
-        return self.blocks_
 
     def eigenvalues(self, time_budget=DEFAULT_TIME_BUDGET):
         """``[(block, Eigenvalues), ...]`` in block order (see :meth:`Block.eigenvalues`).
@@ -265,9 +275,9 @@ class HamiltonianMatrix(NotationHooks, OperatorMatrix):
         budget); larger ones are returned at once, ``interrupted`` at their first step.
         """
         if time_budget is None:
-            return [(blk, blk.eigenvalues(None)) for blk in self.blocks_]
+            return [(blk, blk.eigenvalues(None)) for blk in self.blocks]
         shared = Deadline(time_budget, "time_budget")      # validates it
-        return [(blk, blk.eigenvalues(shared.remaining())) for blk in self.blocks_]
+        return [(blk, blk.eigenvalues(shared.remaining())) for blk in self.blocks]
 
 
 def _read_js(js):

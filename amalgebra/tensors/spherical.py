@@ -76,7 +76,7 @@ from sympy import Basic, Expr, I, S, sqrt
 from sympy.core.symbol import Str
 
 from .._validation import check_label
-from ..algebra.operators import AngularMomentumComponent
+from ..algebra.operators import AngularMomentumComponent, _FamilyNotOperator
 from ..notation import NotationHooks
 from ..coupling import threej
 from ..errors import OperatorError, QuantumNumberError, TensorOperatorError
@@ -109,7 +109,7 @@ def _hermitian_flag(hermitian):
     return herm
 
 
-class SphericalTensor(NotationHooks, Basic):
+class SphericalTensor(_FamilyNotOperator, NotationHooks, Basic):
     r"""A family of spherical tensor components :math:`T^k_q` under the angular momentum ``label``.
 
     Explanation
@@ -144,6 +144,7 @@ class SphericalTensor(NotationHooks, Basic):
     """
 
     __slots__ = ()
+    _component_example = "{self.name}[0]"
     _notation_key = "spherical_tensor"
 
     def __new__(cls, name, k, label="J", kind="abstract", hermitian=True):

@@ -53,7 +53,7 @@ References
 from sympy import Add, Basic, Expr, I, Mul, S, expand
 from sympy.core.symbol import Str
 
-from ..algebra.operators import AngularMomentumComponent
+from ..algebra.operators import AngularMomentumComponent, _FamilyNotOperator
 from ..notation import NotationHooks
 from ..errors import OperatorError, TensorOperatorError
 from .products import TensorComponents, cartesian_to_spherical
@@ -64,7 +64,7 @@ __all__ = ["VectorOperator", "VectorComponent", "vector_commutator"]
 _AXES = ("x", "y", "z")
 
 
-class VectorOperator(NotationHooks, Basic):
+class VectorOperator(_FamilyNotOperator, NotationHooks, Basic):
     r"""A vector operator named ``name`` under the angular momentum ``label``.
 
     ``args`` are ``(Str(name), Str(label), Str("hermitian"|"general"))``.
@@ -90,6 +90,7 @@ class VectorOperator(NotationHooks, Basic):
     """
 
     __slots__ = ()
+    _component_example = "{self.name}.x"
     _notation_key = "vector_operator"
 
     def __new__(cls, name, label="J", hermitian=True):

@@ -253,3 +253,20 @@ def test_parity_is_not_offered_for_spins_or_single_j():
     # half-integer direct sum on S: a spin, no orbital parity
     hs = hamiltonian_matrix(A * Sop.z, {"S": [h, Rational(3, 2)]})
     assert hs.conserved == ("M", "j_S")
+
+
+def test_operator_matrix_and_hamiltonian_matrix_share_the_blocks_api():
+    # one API (issue 11): blocks is a list of Block and conserved a tuple on both result types
+    from amalgebra.matrices.explicit import to_matrix
+
+    Lop, Sop = AngularMomentum("L"), AngularMomentum("S")
+    op = dot(Lop, Sop) + 3 * Lop.z
+    js = {"L": 1, "S": Rational(1, 2)}
+    om = to_matrix(op, js, with_basis=True)
+    hm = hamiltonian_matrix(op, js)
+    assert isinstance(om.blocks, list) and isinstance(om.conserved, tuple)
+    assert om.conserved == hm.conserved == ("M",)
+    assert [(b.indices, b.quantum_numbers, b.matrix) for b in om.blocks] == \
+        [(b.indices, b.quantum_numbers, b.matrix) for b in hm.blocks]
+    # M = m_L + m_S = 3/2, 1/2, -1/2, -3/2: block sizes 1, 2, 2, 1 (common practice, no source)
+    assert [b.size for b in om.blocks] == [1, 2, 2, 1]
