@@ -10,9 +10,10 @@ whatever Python code is running (a SymPy routine included), through the real-tim
 interval timer (``signal.setitimer(ITIMER_REAL)``).  :class:`DeadlineExpired` is
 a ``BaseException`` so that library code catching ``Exception`` lets it out;
 the timer re-fires every 50 ms while the deadline stays expired, in case a bare
-``except:`` swallowed the first one.  Python drops ("ignores") an exception raised
-inside a garbage-collector callback or a ``__del__`` method, so when the timer
-finds one of those running it does not raise there: it fires again 1 ms later.
+``except:`` swallowed the first one.  Python drops ("ignores") an exception
+raised inside a garbage-collector callback, a ``__del__`` method or a
+weak-reference callback, so when the timer finds one of those running it does
+not raise there: it fires again 1 ms later.
 
 Rules of the one timer:
 
@@ -66,6 +67,7 @@ __all__ = ["Deadline", "DeadlineExpired", "armed", "REFIRE_SECONDS"]
 REFIRE_SECONDS = 0.05
 #: the delay of the next signal when the interrupted frame would drop the exception
 _RETRY_SECONDS = 1e-3
+_WEAKREF_FILES = ("weakref.py", "_weakrefset.py")
 
 
 class DeadlineExpired(BaseException):
@@ -164,14 +166,17 @@ def _arm():
 def _would_drop(frame):
     """True when an exception raised in ``frame`` would be dropped by the interpreter.
 
-    That is the case inside a garbage-collector callback (hypothesis installs one)
-    or a ``__del__`` method, anywhere up the chain of callers: the exception would
-    only be reported as "ignored" and the interrupted work would go on.
+    That is the case inside a garbage-collector callback (hypothesis installs one),
+    a ``__del__`` method or a weak-reference callback (SymPy's caches hold weak
+    dictionaries), anywhere up the chain of callers: the exception would only be
+    reported as "ignored" and the interrupted work would go on.  Weak-reference
+    callbacks cannot be told apart from other code of the weakref modules, so any
+    frame there defers the signal; a deferral only costs a millisecond.
     """
     callbacks = {getattr(cb, "__code__", None) for cb in gc.callbacks}
     while frame is not None:
         code = frame.f_code
-        if code.co_name == "__del__" or code in callbacks:
+        if code.co_name == "__del__" or code in callbacks or code.co_filename.endswith(_WEAKREF_FILES):
             return True
         frame = frame.f_back
     return False

@@ -115,6 +115,31 @@ def test_not_raised_inside_a_finaliser(clean_alarm, monkeypatch):
 
 
 @needs_timer
+def test_not_raised_inside_a_weakref_callback(clean_alarm, monkeypatch):
+    import weakref
+
+    dropped = []
+    monkeypatch.setattr(sys, "unraisablehook", lambda info: dropped.append(info.exc_value))
+
+    class Target:
+        pass
+
+    ran = []
+
+    def slow_finaliser():
+        ran.append(1)
+        _spin(0.5)                      # called by weakref.finalize.__call__ (weakref.py) on the object's death
+
+    with pytest.raises(DeadlineExpired):
+        with armed(Deadline(0.05)):
+            target = Target()
+            weakref.finalize(target, slow_finaliser)
+            del target
+            _spin()
+    assert ran == [1] and dropped == []
+
+
+@needs_timer
 def test_nested_inner_expires_first_and_outer_stays_armed(clean_alarm):
     outer, inner = Deadline(LONG), Deadline(0.2)
     with armed(outer):
