@@ -40,11 +40,11 @@ Fraction(0, 1)
 from fractions import Fraction
 from functools import lru_cache
 
-from sympy import Expr, Integer, Mul, Pow, S, sqrt
+from sympy import Add, Expr, Integer, Mul, Pow, S, sqrt
 
 from .errors import OperatorError
 
-__all__ = ["sqrt_of_product", "condon_shortley", "ladder_radicand", "ladder_float", "ladder_float_array",
+__all__ = ["sqrt_of_product", "exact_sum", "condon_shortley", "ladder_radicand", "ladder_float", "ladder_float_array",
            "clear_caches"]
 
 
@@ -178,6 +178,23 @@ def condon_shortley(j, m, d):
     if d > 0:
         return Mul(*[sqrt(j - m - k) * sqrt(j + m + k + 1) for k in range(d)])
     return Mul(*[sqrt(j + m - k) * sqrt(j - m + k + 1) for k in range(-d)])
+
+
+def exact_sum(terms):
+    """``Add(*terms)`` in one normal form: a sum of several terms, or any number, multiplied out.
+
+    A state-level result gathered over basis pairs (a coupled ket expands into
+    product kets, each overlap a product of coefficients) would otherwise keep
+    products and powers of sums of radicals, so that the same value printed in
+    different shapes; multiplied out, SymPy collects equal radicals and a
+    normalised superposition gives 1.
+
+    >>> from sympy import sqrt
+    >>> exact_sum([(sqrt(6)/6 + sqrt(3)/3)**2, (sqrt(3)/3 - sqrt(6)/6)**2])
+    1
+    """
+    total = Add(*terms)
+    return total.expand() if len(terms) > 1 or total.is_number else total
 
 
 def clear_caches():

@@ -92,6 +92,7 @@ References
 
 from sympy import Add, And, KroneckerDelta, Mul, Piecewise, S, adjoint
 
+from .._exact import exact_sum
 from ..errors import StateError
 from .engine import compile_operator
 from .kets import (_FAMILIES, Bra, Ket, ProductBra, ProductKet, _factor_map, _family_of, _label_key, components,
@@ -249,7 +250,7 @@ def matrix_element(bra_state, op, ket_state, *, conditions=True, reduced=None, c
     kets = components(ket_state)
     terms = [cb * ck * _element(b, op, k, conditions, table, convention)
              for b, cb in bras.items() for k, ck in kets.items()]
-    return Add(*terms)
+    return exact_sum(terms)
 
 
 def _bra_like(state):

@@ -68,6 +68,7 @@ from sympy.core.symbol import Str
 
 from .._validation import check_label, label_key
 from ..notation import NotationHooks
+from .._exact import exact_sum
 from ..errors import NotNumericError, OperatorError, QuantumNumberError, ProjectionError, StateError
 from ..qnumbers import doubled, doubled_projection, is_numeric, quantum_number
 
@@ -616,7 +617,7 @@ def inner(bra_state, ket_state):
         else:
             pairs = list(kets.items())
         terms.extend(cb * ck * _basis_overlap(b, k) for k, ck in pairs)
-    return Add(*terms)
+    return exact_sum(terms)
 
 
 def _is_numeric_basis(basis):
