@@ -181,7 +181,7 @@ def condon_shortley(j, m, d):
 
 
 def exact_sum(terms):
-    """``Add(*terms)`` in one normal form: a sum of several terms, or any number, multiplied out.
+    """``Add(*terms)`` in one normal form: several terms, or a product or power of a sum, multiplied out.
 
     A state-level result gathered over basis pairs (a coupled ket expands into
     product kets, each overlap a product of coefficients) would otherwise keep
@@ -194,7 +194,9 @@ def exact_sum(terms):
     1
     """
     total = Add(*terms)
-    return total.expand() if len(terms) > 1 or total.is_number else total
+    if len(terms) > 1 or (total.is_Mul or total.is_Pow) and any(arg.is_Add for arg in total.args):
+        return total.expand()
+    return total
 
 
 def clear_caches():
