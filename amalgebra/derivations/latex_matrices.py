@@ -95,7 +95,7 @@ def matrix_blocks(value):
 
     if not isinstance(value, OperatorMatrix):
         return None
-    return list(value.blocks), tuple(value.conserved)
+    return value.blocks, value.conserved
 
 
 def _pack(items, width):

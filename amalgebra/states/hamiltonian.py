@@ -205,17 +205,19 @@ class OperatorMatrix(Printable):
 
         Found on first use; :attr:`conserved` names the quantum numbers they are labelled by.
         """
-        if self._blocks is None:
-            blocks, conserved = _find_blocks(self.matrix, self.basis)
-            self._blocks, self._conserved = list(blocks), tuple(conserved)
+        self._find()
         return self._blocks
 
     @property
     def conserved(self):
         """The conserved quantum numbers that label :attr:`blocks` (``("M",)``, ``("M", "parity")``, ...)."""
-        if self._conserved is None:
-            self.blocks
+        self._find()
         return self._conserved
+
+    def _find(self):
+        if self._blocks is None:
+            blocks, conserved = _find_blocks(self.matrix, self.basis)
+            self._blocks, self._conserved = list(blocks), tuple(conserved)
 
     def __repr__(self):
         return f"OperatorMatrix(size={self.matrix.shape[0]}, basis={self.basis!r})"

@@ -66,9 +66,9 @@ from fractions import Fraction
 from sympy import Add, Basic, Expr, KroneckerDelta, Mul, S, adjoint, sqrt
 from sympy.core.symbol import Str
 
+from .._exact import exact_sum
 from .._validation import check_label, label_key
 from ..notation import NotationHooks
-from .._exact import exact_sum
 from ..errors import NotNumericError, OperatorError, QuantumNumberError, ProjectionError, StateError
 from ..qnumbers import doubled, doubled_projection, is_numeric, quantum_number
 

@@ -1,5 +1,7 @@
 """adjoint/conjugate/transpose of an operator family: a typed error naming a component (issue 11, bad input)."""
 
+import re
+
 import pytest
 from sympy import adjoint, conjugate, transpose
 
@@ -16,7 +18,7 @@ FAMILIES = [(AngularMomentum("J"), "J.plus"), (BosonMode("c"), "c.create"),
 @pytest.mark.parametrize("family, component", FAMILIES, ids=lambda x: str(x))
 @pytest.mark.parametrize("func", [adjoint, conjugate, transpose], ids=lambda f: f.__name__)
 def test_a_family_is_not_an_operator(family, component, func):
-    with pytest.raises(OperatorError, match=rf"{func.__name__} of .*not an operator.*{component.replace('.', '[.]').replace('[0]', '.0.')}"):
+    with pytest.raises(OperatorError, match=rf"{func.__name__} of .*not an operator.*{re.escape(component)}"):
         func(family)
 
 
