@@ -32,10 +32,25 @@ integers are never decoded.  The result is the same element as the
 ``sympy.polys`` route, term for term (``tests/algebra/test_packed_power.py``).
 
 The route is taken only where it pays (measured, ``tests/benchmarks/bench_canonical.py``):
-coefficient domain ``ZZ`` (rational input, cleared denominators), a base ``a`` that
-involves one label (several labels make the dense layout sparse: ``(J_x + S_x)^{10}``
-was no faster), and a slot layout of at most :data:`MAX_SLOTS` slots and
-:data:`MAX_BITS` bits per polynomial.
+
+* coefficient domain ``ZZ`` (rational input, cleared denominators);
+* for a base that involves several labels, a *fill* of the dense layout of at
+  least :data:`_MIN_FILL` (the share of the layout inside the degree boxes of the
+  polynomials), judged on ``a**4`` so that a declined base costs little:
+  independent ladders of two labels leave the layout mostly empty
+  (``(J_x + S_x)^{10}``: fill 0.09 at the 4th power, packed no faster), while
+  ladders that move together fill it (``(J_+S_- + J_-S_+ + 2J_zS_z)^{12}``: fill
+  0.22, packed 4.7x faster); a base of one label always qualifies;
+* a packed result of at most ``64 * max_dense_entries`` bits in all
+  (:func:`amalgebra.limits.current_limits`; 80 MB at the default, the size of
+  the largest dense int64 matrix the limits allow).  Intermediate integers are
+  never larger than the final ones.  Above the cap the plain route runs: no
+  error, since the plain route's output may be far smaller than the dense bound.
+
+The decision needs only the first pass (degrees and 1-norms).  The plain route
+(the loop of :meth:`~amalgebra.algebra.shiftform.ShiftAlgebra.mul`) is kept as the
+oracle :func:`amalgebra.testing.kernel_oracle.repeated_product`; there is no
+public switch between the two.
 
 Examples
 ========
@@ -46,7 +61,8 @@ Examples
 >>> A = ShiftAlgebra([("J", ANGULAR_MOMENTUM)], ZZ)
 >>> x = A.add(A.atom("J", "plus"), A.atom("J", "minus"), A.atom("J", "z"))
 >>> packed = packed_power(A, x, 6)
->>> packed == A.power(x, 6, packed=False)      # the sympy.polys route, term for term
+>>> from amalgebra.testing.kernel_oracle import repeated_product
+>>> packed == repeated_product(A, x, 6)         # the sympy.polys route, term for term
 True
 >>> len(packed)                                 # shifts -6 .. 6
 13
@@ -54,17 +70,23 @@ True
 
 import re
 
-__all__ = ["packed_power", "packable", "ENABLED", "MAX_SLOTS", "MAX_BITS"]
+from ..limits import current_limits
 
-ENABLED = True
-"""Whether :meth:`~amalgebra.algebra.shiftform.ShiftAlgebra.power` may take this route (tests
-switch it off to compare the two routes through :func:`~amalgebra.algebra.canonical`)."""
+__all__ = ["packed_power", "packable"]
 
-MAX_SLOTS = 1 << 16
-"""Largest dense slot count per packed polynomial (product of ``D_i + 1`` over the variables)."""
+# Internal: amalgebra.testing.kernel_oracle.plain_power_route switches it off so tests can
+# compare the two routes through canonical(); not a user-facing option.
+_ENABLED = True
 
-MAX_BITS = 1 << 26
-"""Largest packed polynomial (slots times bits per slot)."""
+_MIN_FILL = 0.15
+"""Smallest layout fill at which a base of several labels takes the packed route (measured)."""
+
+_PROBE_POWER = 4
+"""A base of several labels is judged by the fill of its 4th power (cheap, and it separated every
+measured win, fill 0.21-0.28, from every loss or tie, fill 0.09-0.14)."""
+
+_BITS_PER_DENSE_ENTRY = 64
+"""The memory cap in bits per ``max_dense_entries`` (one int64 entry)."""
 
 
 def packable(algebra):
@@ -100,8 +122,7 @@ def packed_power(algebra, a, n):
     den = a.den ** n
     if not items:
         return Element()
-    if len(_labels_used(algebra, items)) > 1:
-        return None
+    several = len(_labels_used(algebra, items)) > 1
     lefts = {}
 
     def left(ia, sb):
@@ -120,24 +141,33 @@ def packed_power(algebra, a, n):
                                      sum(abs(c) for _, c in terms))
         return hit
 
+    def bounds_after(steps):
+        # degree vectors and 1-norm bounds of every polynomial of a**(steps + 1)
+        bounds = {shift: (_degrees(terms, r), sum(abs(c) for _, c in terms)) for shift, terms in items}
+        for _ in range(steps):
+            new = {}
+            for sb, (db, nb) in bounds.items():
+                for ia in range(len(items)):
+                    key, terms, dl, nl = left(ia, sb)
+                    if not terms:
+                        continue
+                    d = tuple(x + y for x, y in zip(dl, db))
+                    prev = new.get(key)
+                    if prev is None:
+                        new[key] = (d, nl * nb)
+                    else:
+                        new[key] = (tuple(map(max, prev[0], d)), prev[1] + nl * nb)
+            bounds = new
+        return bounds
+
+    if several and n > _PROBE_POWER and _fill(bounds_after(_PROBE_POWER - 1).values()) < _MIN_FILL:
+        return None      # decided on a**4: a declined base costs only that small pass
     # Pass 1: degree vectors and 1-norm bounds of every polynomial of the result.
-    bounds = {shift: (_degrees(terms, r), sum(abs(c) for _, c in terms)) for shift, terms in items}
-    for _ in range(n - 1):
-        new = {}
-        for sb, (db, nb) in bounds.items():
-            for ia in range(len(items)):
-                key, terms, dl, nl = left(ia, sb)
-                if not terms:
-                    continue
-                d = tuple(x + y for x, y in zip(dl, db))
-                prev = new.get(key)
-                if prev is None:
-                    new[key] = (d, nl * nb)
-                else:
-                    new[key] = (tuple(map(max, prev[0], d)), prev[1] + nl * nb)
-        bounds = new
+    bounds = bounds_after(n - 1)
     if not bounds:
-        return Element()
+        return Element()      # (a nonzero base over ZZ never gets here: the ring is a domain)
+    if several and n <= _PROBE_POWER and _fill(bounds.values()) < _MIN_FILL:
+        return None
     top = [0] * r
     norm = 1
     for d, nb in bounds.values():
@@ -149,7 +179,8 @@ def packed_power(algebra, a, n):
         strides.append(slots)
         slots *= d + 1
     bits = -(-(norm.bit_length() + 1) // 8) * 8   # |c| < 2^(bits - 1), whole bytes
-    if slots > MAX_SLOTS or slots * bits > MAX_BITS:
+    cap = current_limits().max_dense_entries
+    if cap is not None and len(bounds) * slots * bits > _BITS_PER_DENSE_ENTRY * cap:
         return None
 
     def offset(mon):
@@ -173,7 +204,24 @@ def packed_power(algebra, a, n):
                     prev = get(key)
                     new[key] = t if prev is None else prev + t
         current = new
-    return Element(_decode(ring, current, bits, top, strides), den)
+    decoded = _decode(ring, current, bits, top, strides)
+    return Element(decoded, den) if decoded else Element()
+
+
+def _fill(bounds):
+    """Share of the dense layout (keys x slots) inside the degree boxes of the polynomials ``bounds``."""
+    bounds = list(bounds)
+    top = [max(column) for column in zip(*[degrees for degrees, _ in bounds])]
+    slots = 1
+    for d in top:
+        slots *= d + 1
+    boxes = 0
+    for degrees, _ in bounds:
+        box = 1
+        for d in degrees:
+            box *= d + 1
+        boxes += box
+    return boxes / (len(bounds) * slots)
 
 
 _NONZERO = re.compile(rb"[^\x00]+")

@@ -385,18 +385,15 @@ class ShiftAlgebra:
                         bucket[mon] = coeff if prev is None else prev + coeff
         return self._finish(acc, a.den * b.den)
 
-    def power(self, a, n, packed=None):
+    def power(self, a, n):
         """``a**n`` by repeated left multiplication (cost follows output size).
 
         Over ``ZZ`` the steps run on packed integers (:mod:`amalgebra.algebra.packed`)
-        where that pays; ``packed=False`` forces the ``sympy.polys`` route (the default
-        ``None`` follows :data:`amalgebra.algebra.packed.ENABLED`).  Same result either way.
+        where that pays, else on ``sympy.polys``; the same element either way.
         """
         if n == 0:
             return self.one()
-        if packed is None:
-            packed = _packed.ENABLED
-        if packed and n > 1 and _packed.packable(self):
+        if _packed._ENABLED and n > 1 and _packed.packable(self):
             result = _packed.packed_power(self, a, n)
             if result is not None:
                 return result

@@ -88,6 +88,15 @@ def main(argv=None):
     ok &= report("canonical((J+ S- + Lz Sz + Ix)^8), three+ labels", best, 2.0,
                  f"{len(Add.make_args(out))} terms")
 
+    # several labels on packed integers (ladders that move together), and a long one-label power
+    together = (J.plus * S.minus + J.minus * S.plus + 2 * J.z * S.z) ** 12
+    best, _, out = cold(lambda: canonical(together), args.repeat)
+    report("canonical((J+ S- + J- S+ + 2 Jz Sz)^12), two labels", best, None,
+           f"{len(Add.make_args(out))} terms")
+    if not args.quick:
+        best, _, out = cold(lambda: canonical(J.x ** 100), 1)
+        report("canonical(Jx^100)", best, None, f"{len(Add.make_args(out))} terms")
+
     from sympy import I, Function, sqrt, symbols as _symbols
     a, b, t = _symbols("a b t")
     f = Function("f")
