@@ -146,7 +146,20 @@ def warn_fallback_once():
                       "so the pure-Python kernel runs (identical results, several times slower). Install a "
                       "published wheel, or reinstall with a C compiler and GMP's headers (Debian: libgmp-dev); "
                       "set AMALGEBRA_PURE_PYTHON=1 to choose the pure-Python kernel without this warning.",
-                      KernelFallbackWarning, stacklevel=3)
+                      KernelFallbackWarning, stacklevel=_caller_stacklevel())
+
+
+def _caller_stacklevel():
+    """The ``stacklevel`` that points ``warnings.warn`` (called from :func:`warn_fallback_once`) at the
+    first frame outside the amalgebra package, i.e. the user's line, however deep the symbol's call chain
+    (caches, symmetry reduction, Basic construction) happens to be."""
+    package_dir = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+    frame = sys._getframe(2)  # the caller of warn_fallback_once
+    level = 2
+    while frame is not None and os.path.abspath(frame.f_code.co_filename).startswith(package_dir + os.sep):
+        frame = frame.f_back
+        level += 1
+    return level
 
 
 _FIELD = 32

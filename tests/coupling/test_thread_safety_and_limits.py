@@ -337,3 +337,15 @@ def test_one_step_cg_against_racah_formula(t1, t2, data):
                Rational(m1 + m2, 2))
     expected = abs(_reference.ref_threej_sq(t1, t2, tJ, m1, m2, -m1 - m2)) * (tJ + 1)
     assert abs(signed_square(value)) == expected
+
+
+def test_fallback_notice_points_at_the_callers_line(monkeypatch):
+    # the warning names the user's file (this test), not a module inside amalgebra/coupling
+    monkeypatch.setattr(kernels, "_fallback_pending", True)
+    clear_coupling_caches()
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        threej(5, 4, 3, 1, -1, 0)
+    notices = [w for w in caught if issubclass(w.category, kernels.KernelFallbackWarning)]
+    assert len(notices) == 1
+    assert notices[0].filename == __file__
