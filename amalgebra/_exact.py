@@ -44,8 +44,8 @@ from sympy import Add, Expr, Integer, Mul, Pow, S, sqrt
 
 from .errors import OperatorError
 
-__all__ = ["sqrt_of_product", "exact_sum", "condon_shortley", "ladder_radicand", "ladder_float", "ladder_float_array",
-           "clear_caches"]
+__all__ = ["sqrt_of_product", "exact_sum", "condon_shortley", "boson_ladder", "ladder_radicand", "ladder_float",
+           "ladder_float_array", "clear_caches"]
 
 
 @lru_cache(maxsize=8192)
@@ -178,6 +178,32 @@ def condon_shortley(j, m, d):
     if d > 0:
         return Mul(*[sqrt(j - m - k) * sqrt(j + m + k + 1) for k in range(d)])
     return Mul(*[sqrt(j + m - k) * sqrt(j - m + k + 1) for k in range(-d)])
+
+
+def boson_ladder(n, d):
+    r"""The boson ladder factor: ``<n+d| a^dagger^d |n>`` for ``d >= 0``, ``<n+d| a^|d| |n>`` for ``d < 0``.
+
+    :math:`\sqrt{(n+1)\cdots(n+d)}` and :math:`\sqrt{n(n-1)\cdots(n-|d|+1)}`
+    (:math:`a^\dagger|n\rangle = \sqrt{n+1}\,|n+1\rangle`,
+    :math:`a|n\rangle = \sqrt{n}\,|n-1\rangle`).  Exact for a numeric
+    occupation (0 below the vacuum), a product of square roots otherwise (valid
+    for :math:`n + d \ge 0`).  The one boson ladder factor of the package.
+
+    >>> from sympy import Symbol
+    >>> boson_ladder(2, 2), boson_ladder(1, -2), boson_ladder(Symbol("n"), -1)
+    (2*sqrt(3), 0, sqrt(n))
+    """
+    if d == 0:
+        return S.One
+    n = S(n)
+    if n.is_Integer:
+        if n + d < 0:
+            return S.Zero
+        lo, hi = (int(n) + 1, int(n) + d) if d > 0 else (int(n) + d + 1, int(n))
+        return sqrt_of_product(range(lo, hi + 1))
+    if d > 0:
+        return Mul(*[sqrt(n + k) for k in range(1, d + 1)])
+    return Mul(*[sqrt(n - k) for k in range(-d)])
 
 
 def exact_sum(terms):

@@ -18,7 +18,12 @@ Convention (exact action, :math:`\hbar = 1`):
     \hat N|n\rangle = n|n\rangle,
 
 Fock kets are orthonormal, :math:`\langle n'|n\rangle = \delta_{n'n}` per
-mode.  :func:`apply_bosons` normal-orders the operator once in the shift-form
+mode.  Fock kets are states like the ``|j m>`` kets: :func:`amalgebra.states.apply`,
+``matrix_element``, ``inner`` and ``expectation`` take them, and a product
+``ket(j, m, "J") * fock_ket(n, modes="a")`` (or ``product_ket``) is a
+spin-boson product ket on which operators mixing both act
+(:func:`apply_bosons` is the same function as ``apply``).  The engine
+normal-orders the operator once in the shift-form
 kernel (:func:`amalgebra.algebra.canonical`), then reads each term
 :math:`a^{\dagger d} f(\hat N)` off as :math:`f(n)\sqrt{(n+1)\cdots(n+d)}`
 (and :math:`a^{d} f(\hat N)` as :math:`f(n)\sqrt{n(n-1)\cdots(n-d+1)}`,
@@ -65,15 +70,13 @@ References
 """
 
 
-from sympy import Add, Expr, KroneckerDelta, Mul, S, Tuple, adjoint, sqrt
+from sympy import Expr, S, Tuple
 from sympy.core.symbol import Str
 
-from ..algebra.convert import kernel_of
 from ..algebra.operators import _check_label
 from ..errors import NotNumericError, OperatorError, QuantumNumberError, StateError
 from ..qnumbers import doubled, is_numeric
-from ..states.kets import _DualState, _dual_pair, components, register_state_family
-from .operators import BOSON
+from ..states.kets import _declare_mode_states, _DualState, _dual_pair, components
 
 __all__ = ["FockKet", "FockBra", "fock_ket", "fock_bra", "vacuum", "occupation", "fock_components",
            "fock_inner", "apply_bosons", "fock_matrix_element"]
@@ -158,6 +161,12 @@ class _FockMixin(_DualState):
 
     def __new__(cls, modes, occupations):
         return Expr.__new__(cls, *_canonical_args(modes, occupations))
+
+    @classmethod
+    def _unchecked(cls, modes, occupations):
+        """Internal: from mode strs and validated occupations (sorted by mode here, as ``__new__`` does)."""
+        pairs = sorted(zip(modes, occupations), key=lambda p: p[0])
+        return Expr.__new__(cls, Tuple(*[Str(label) for label, _ in pairs]), Tuple(*[n for _, n in pairs]))
 
     @property
     def modes(self):
@@ -295,55 +304,9 @@ def fock_inner(bra_state, ket_state):
     StateError
         When bra and ket carry different mode labels.
     """
-    try:
-        bras = fock_components(bra_state, FockBra, "bra")
-    except StateError:
-        bras = fock_components(adjoint(bra_state), FockBra, "bra")
-    kets = fock_components(ket_state, FockKet, "ket")
-    terms = []
-    for b, cb in bras.items():
-        for k, ck in kets.items():
-            if b.modes != k.modes:
-                raise StateError(f"bra={b} and ket={k} must carry the same modes, got {b.modes} and {k.modes}")
-            overlap = Mul(*[KroneckerDelta(x, y) for x, y in zip(b.occupations, k.occupations)])
-            if overlap != 0:
-                terms.append(cb * ck * overlap)
-    return Add(*terms)
+    from ..states.kets import inner
 
-
-def _operator_plan(op):
-    """``(algebra, element)`` of ``op`` with every label checked to be a boson mode."""
-    algebra, (element,) = kernel_of(op)
-    for label, mode in zip(algebra.labels, algebra.modes):
-        if mode is not BOSON:
-            raise OperatorError(f"op={op} must be built from boson operators only to act on Fock kets; "
-                                f"label={label!r} is a {mode.kind}")
-    return algebra, element
-
-
-def _poly_expr(algebra, poly):
-    """A kernel polynomial as a SymPy expression in the mode variables (ring symbols).
-
-    Goes through ``algebra.terms`` (coefficients in ``algebra.domain``; Gaussian
-    kernels carry the imaginary unit as an extra generator) rather than
-    ``poly.as_expr()``.
-    """
-    domain = algebra.domain
-    symbols = algebra.ring.symbols
-    gens = [g for idx in algebra.var_index for g in idx]
-    items = algebra.terms(poly) if hasattr(algebra, "terms") else list(poly.items())
-    return Add(*[domain.to_sympy(domain.convert(c)) * Mul(*[symbols[g] ** mon[g] for g in gens if mon[g]])
-                 for mon, c in sorted(items, reverse=True)])
-
-
-def _ladder(n, d):
-    """``(factor, new n)`` of ``a^dagger^d`` (d > 0) or ``a^|d|`` (d < 0) on ``|n>``; None for zero."""
-    if d > 0:
-        return Mul(*[sqrt(n + i) for i in range(1, d + 1)]), n + d
-    k = -d
-    if n.is_Integer and n < k:
-        return None
-    return Mul(*[sqrt(n - i) for i in range(k)]), n - k
+    return inner(bra_state, ket_state)
 
 
 def apply_bosons(op, state):
@@ -352,10 +315,13 @@ def apply_bosons(op, state):
     Explanation
     ===========
 
-    ``op`` is normal-ordered once in the kernel, then every term
-    :math:`a^{\dagger d} f(\hat N)` acts exactly on each basis ket (see the
-    module docstring).  Modes of the kets that ``op`` does not mention are
-    left alone; every mode of ``op`` must be a mode of the kets.
+    The same function as :func:`amalgebra.states.apply` (one engine: ``op`` is
+    normal-ordered once in the kernel, then every term
+    :math:`a^{\dagger d} f(\hat N)` acts exactly on each basis ket, see the
+    module docstring), kept under this name.  Modes of the kets that ``op``
+    does not mention are left alone; every mode of ``op`` must be a mode of
+    the kets.  Spin-boson product kets (``ket(j, m, "J") * fock_ket(n,
+    modes="a")``) take operators that mix both.
 
     Examples
     ========
@@ -371,51 +337,23 @@ def apply_bosons(op, state):
     ==========
 
     op : Expr
-        Polynomial in :class:`~amalgebra.bosons.BosonOperator` atoms with
-        commutative coefficients.
-    state : FockKet or linear combination of FockKets
+        Polynomial in :class:`~amalgebra.bosons.BosonOperator` atoms (and
+        angular-momentum or tensor components of the ``|j m>`` factors of a
+        product ket) with commutative coefficients.
+    state : FockKet, product ket with a Fock factor, or a linear combination of them
 
     Raises
     ======
 
     OperatorError
-        ``op`` contains angular-momentum or unknown operators.
+        ``op`` acts on a mode or label the state does not carry, or contains
+        unknown operators.
     StateError
-        ``state`` is not a Fock state, or lacks a mode of ``op``.
+        ``state`` is not a linear combination of kets.
     """
-    kets = fock_components(state, FockKet, "state")
-    algebra, element = _operator_plan(op)
-    symbols = algebra.ring.symbols
-    polys = {key: _poly_expr(algebra, element[key]) for key in sorted(element)}
-    out = {}
-    for basis, coeff in kets.items():
-        values = basis.as_dict()
-        missing = [label for label in algebra.labels if label not in values]
-        if missing:
-            raise StateError(f"state={basis} must carry mode {missing[0]!r} of op={op}")
-        point = {symbols[algebra.var_index[i][0]]: values[label] for i, label in enumerate(algebra.labels)}
-        for key, poly in polys.items():
-            value = poly.xreplace(point)
-            if value == 0:
-                continue
-            factors = [value]
-            new = dict(values)
-            for label, d in zip(algebra.labels, key):
-                if d:
-                    step = _ladder(values[label], d)
-                    if step is None:
-                        break
-                    factors.append(step[0])
-                    new[label] = step[1]
-            else:
-                target = FockKet(basis.modes, [new[label] for label in basis.modes])
-                out.setdefault(target, []).append(coeff * Mul(*factors) / element.den)
-    terms = []
-    for target, parts in out.items():
-        c = Add(*parts).expand()
-        if c != 0:
-            terms.append(c * target)
-    return Add(*terms)
+    from ..states.action import apply
+
+    return apply(op, state)
 
 
 def fock_matrix_element(bra_state, op, ket_state):
@@ -427,8 +365,9 @@ def fock_matrix_element(bra_state, op, ket_state):
     >>> fock_matrix_element(fock_bra(3, modes="a"), a.create**2, fock_ket(1, modes="a")) == sqrt(6)
     True
     """
-    return fock_inner(bra_state, apply_bosons(op, ket_state))
+    from ..states.action import matrix_element
+
+    return matrix_element(bra_state, op, ket_state)
 
 
-# Fock kets reach amalgebra.states.apply / matrix_element / inner / expectation through this hook
-register_state_family((FockKet,), (FockBra,), apply_bosons, fock_inner)
+_declare_mode_states(FockKet, FockBra)

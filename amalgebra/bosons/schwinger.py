@@ -93,7 +93,7 @@ from ..algebra.operators import AngularMomentum, AngularMomentumComponent, _chec
 from ..errors import NotInImageError, NotNumericError, OperatorError, StateError
 from ..qnumbers import doubled, doubled_projection
 from ..states.kets import Ket, components
-from .fock import FockKet, _poly_expr, apply_bosons, fock_components, vacuum
+from .fock import FockKet, apply_bosons, fock_components, vacuum
 from .operators import BOSON, BosonMode
 
 __all__ = ["NotInImageError", "schwinger_images", "to_bosons", "from_bosons", "spin_to_fock",
@@ -108,6 +108,21 @@ def _scalar(value, name):
     if not value.is_commutative:
         raise NotNumericError(f"{name}={value} must be commutative (a number or a symbol), not an operator")
     return value
+
+
+def _poly_expr(algebra, poly):
+    """A kernel polynomial as a SymPy expression in the mode variables (ring symbols).
+
+    Goes through ``algebra.terms`` (coefficients in ``algebra.domain``; Gaussian
+    kernels carry the imaginary unit as an extra generator) rather than
+    ``poly.as_expr()``.
+    """
+    domain = algebra.domain
+    symbols = algebra.ring.symbols
+    gens = [g for idx in algebra.var_index for g in idx]
+    items = algebra.terms(poly) if hasattr(algebra, "terms") else list(poly.items())
+    return Add(*[domain.to_sympy(domain.convert(c)) * Mul(*[symbols[g] ** mon[g] for g in gens if mon[g]])
+                 for mon, c in sorted(items, reverse=True)])
 
 
 def _mode_pair(modes):

@@ -95,22 +95,33 @@ from sympy import Add, And, KroneckerDelta, Mul, Piecewise, S, adjoint
 from .._exact import exact_sum
 from ..errors import StateError
 from .engine import compile_operator
-from .kets import (_FAMILIES, Bra, Ket, ProductBra, ProductKet, _factor_map, _family_of, _label_key, components,
-                   register_state_family)
+from .actionform import slots
+from .kets import Ket, ProductKet, _factor_map, _mode_map, components
 
 __all__ = ["apply", "matrix_element", "expectation"]
 
+
 def _basis_values(basis):
-    """Sorted labels and ``{label: (j, m)}`` of a basis ket or bra."""
-    fm = _factor_map(basis)
-    return tuple(sorted(fm, key=_label_key)), fm
+    """``(labels, modes, values)`` of a basis ket or bra: its ``|j m>`` labels, its boson modes, and the
+    engine's values, ``(j, m)`` per label then ``(0, n)`` per mode (the order of ``slots``)."""
+    fm, nm = _factor_map(basis), _mode_map(basis)
+    names, where = slots(fm, nm)
+    values = tuple(fm[name] if i not in where else (S.Zero, nm[name]) for i, name in enumerate(names))
+    return tuple(fm), tuple(nm), values
 
 
-def _target(labels, values):
-    kets = [Ket(j, m, lab) for lab, (j, m) in zip(labels, values)]
-    if len(kets) == 1:
-        return kets[0]
-    return ProductKet._unchecked(kets)
+def _target(labels, modes, values):
+    """The basis ket of engine ``values`` (``|j m>`` factors, then one Fock factor)."""
+    names, where = slots(labels, modes)
+    kets = [Ket._unchecked(j, m, lab) for i, (lab, (j, m)) in enumerate(zip(names, values)) if i not in where]
+    fock = None
+    if where:
+        from ..bosons.fock import FockKet
+
+        fock = FockKet._unchecked(tuple(names[i] for i in where), tuple(values[i][1] for i in where))
+    if len(kets) + (fock is not None) == 1:
+        return kets[0] if kets else fock
+    return ProductKet._unchecked(kets, fock)
 
 
 def apply(op, state, *, reduced=None, convention="edmonds"):
@@ -143,17 +154,13 @@ def apply(op, state, *, reduced=None, convention="edmonds"):
     >>> apply(T[1], ket("1/2", "-1/2", "S"), reduced={T: {("1/2", "1/2"): 1}})   # only j' = 1/2 given
     -sqrt(3)*|1/2, 1/2>_S/3
     """
-    family = _family_of(state, 0) if _FAMILIES and hasattr(state, "has") else None
-    if family is not None:
-        return family[2](op, state)
     table = _reduced_table(reduced)
     parts = {}
     for basis, coeff in components(state).items():
-        labels, values = _basis_values(basis)
-        compiled = compile_operator(op, labels)
-        start = tuple(values[lab] for lab in labels)
+        labels, modes, start = _basis_values(basis)
+        compiled = compile_operator(op, labels, modes)
         for target, amp in compiled.act({start: S.One}, table, convention).items():
-            parts.setdefault(_target(labels, target), []).append(coeff * amp)
+            parts.setdefault(_target(labels, modes, target), []).append(coeff * amp)
     terms = []
     for basis, cs in parts.items():
         c = Add(*cs)
@@ -171,6 +178,7 @@ def _reduced_table(reduced):
 
 
 def _range_conditions(values):
+    """``-j <= m <= j`` per |j m> value that SymPy cannot decide; None when one is false."""
     conds = []
     for j, m in values:
         for rel in (-j <= m, m <= j):
@@ -182,13 +190,12 @@ def _range_conditions(values):
 
 
 def _element(b, op, k, conditions, table, convention):
-    bl, bv = _basis_values(b)
-    kl, kv = _basis_values(k)
-    if bl != kl:
-        raise StateError(f"bra={b} and ket={k} must carry the same labels, got {list(bl)} and {list(kl)}")
-    compiled = compile_operator(op, kl)
-    start = tuple(kv[lab] for lab in kl)
-    goal = tuple(bv[lab] for lab in kl)
+    bl, bm, goal = _basis_values(b)
+    kl, km, start = _basis_values(k)
+    if (bl, bm) != (kl, km):
+        raise StateError(f"bra={b} and ket={k} must carry the same labels, got {list(bl) + list(bm)} and "
+                         f"{list(kl) + list(km)}")
+    compiled = compile_operator(op, kl, km)
     numeric = all(v.is_Rational for pair in start + goal for v in pair)
     if numeric:
         return compiled.element(goal, start, table, convention)
@@ -199,7 +206,8 @@ def _element(b, op, k, conditions, table, convention):
     value = Add(*terms)
     if not conditions or value == 0:
         return value
-    conds = _range_conditions(list(start) + list(goal))
+    am = [i for i in range(len(start)) if i not in compiled.modes]
+    conds = _range_conditions([start[i] for i in am] + [goal[i] for i in am])
     if conds is None:
         return S.Zero
     if not conds:
@@ -240,13 +248,10 @@ def matrix_element(bra_state, op, ket_state, *, conditions=True, reduced=None, c
 
     apply, expectation
     """
-    family = _family_of(ket_state, 0) if _FAMILIES and hasattr(ket_state, "has") else None
-    if family is not None:
-        return family[3](bra_state if _family_of(bra_state, 1) else adjoint(bra_state), family[2](op, ket_state))
-    if isinstance(bra_state, (Ket, ProductKet)) or not _bra_like(bra_state):
+    if not _bra_like(bra_state):
         bra_state = adjoint(bra_state)
     table = _reduced_table(reduced)
-    bras = components(bra_state, (Bra, ProductBra), "bra")
+    bras = components(bra_state, "bra", "bra")
     kets = components(ket_state)
     terms = [cb * ck * _element(b, op, k, conditions, table, convention)
              for b, cb in bras.items() for k, ck in kets.items()]
@@ -255,7 +260,7 @@ def matrix_element(bra_state, op, ket_state, *, conditions=True, reduced=None, c
 
 def _bra_like(state):
     try:
-        components(state, (Bra, ProductBra), "bra")
+        components(state, "bra", "bra")
     except StateError:
         return False
     return True
@@ -274,15 +279,10 @@ def expectation(op, state, *, reduced=None, convention="edmonds"):
     >>> expectation(J.x, (ket("1/2", "1/2") + ket("1/2", "-1/2")) / sqrt(2))
     1/2
     """
-    family = _family_of(state, 0) if _FAMILIES and hasattr(state, "has") else None
-    if family is not None:
-        num = family[3](adjoint(state), family[2](op, state))
-        den = family[3](adjoint(state), state)
-    else:
-        from .kets import inner
+    from .kets import inner
 
-        num = matrix_element(adjoint(state), op, state, conditions=False, reduced=reduced, convention=convention)
-        den = inner(adjoint(state), state)
+    num = matrix_element(adjoint(state), op, state, conditions=False, reduced=reduced, convention=convention)
+    den = inner(adjoint(state), state)
     if den == 0:
         raise StateError(f"state={state} must be nonzero")
     return (num / den).expand() if den != 1 else num.expand()

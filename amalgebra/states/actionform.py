@@ -66,13 +66,13 @@ from sympy.polys.domains import QQ, ZZ
 from sympy.polys.rings import PolyRing
 
 from .._exact import clear_caches as _clear_exact
-from .._exact import condon_shortley, sqrt_of_product
+from .._exact import boson_ladder, condon_shortley, sqrt_of_product
 from .._validation import label_key
 from ..algebra.convert import kernel_of
 from ..algebra.modes import ANGULAR_MOMENTUM
 from ..errors import OperatorError
 
-__all__ = ["ActionForm", "action_form", "form_of_element", "check_labels", "condon_shortley", "sqrt_of_product",
+__all__ = ["ActionForm", "action_form", "slots", "form_of_element", "check_labels", "condon_shortley", "sqrt_of_product",
            "clear_caches"]
 
 
@@ -86,10 +86,11 @@ class ActionForm:
     computation cache; :meth:`closed_form` converts.
     """
 
-    __slots__ = ("labels", "ring", "domain", "jvars", "mvars", "terms", "_symbols", "_conv", "_ints")
+    __slots__ = ("labels", "modes", "ring", "domain", "jvars", "mvars", "terms", "_symbols", "_conv", "_ints")
 
-    def __init__(self, labels, ring, terms):
+    def __init__(self, labels, ring, terms, modes=()):
         self.labels = tuple(labels)
+        self.modes = frozenset(modes)
         self.ring = ring
         self.domain = ring.domain
         self._symbols = ring.symbols
@@ -207,9 +208,9 @@ class ActionForm:
         if c == 0:
             return S.Zero
         factors = [c]
-        for (j, m), d in zip(prepared[0], shift):
+        for slot, ((j, m), d) in enumerate(zip(prepared[0], shift)):
             if d:
-                n = condon_shortley(j, m, d)
+                n = boson_ladder(m, d) if slot in self.modes else condon_shortley(j, m, d)
                 if n == 0:
                     return S.Zero
                 factors.append(n)
@@ -295,11 +296,22 @@ def _ring_for(n, domain):
     return ring
 
 
-def form_of_element(algebra, element, labels):
+def _generators(index):
+    """``(J^2 generator or None, shift-variable generator)`` of one kernel label's ``var_index``.
+
+    An angular momentum has ``(J^2, J_z)``, a boson mode ``(N,)``: in an action
+    form a mode's slot is ``(0, n)``, its ``m`` variable standing for ``n``.
+    """
+    return (index[0], index[1]) if len(index) == 2 else (None, index[0])
+
+
+def form_of_element(algebra, element, labels, modes=()):
     """The :class:`ActionForm` over ``labels`` of a kernel ``element`` of ``algebra`` (a ShiftAlgebra).
 
-    Every kernel label must be among ``labels`` and be an angular momentum
-    (checked by the callers, which word the error for their input).
+    ``modes`` are the slot indices of boson modes among ``labels`` (values
+    ``(0, n)``).  Every kernel label must be among ``labels``, an angular
+    momentum on an angular-momentum slot or a boson on a mode slot (checked
+    by the callers through :func:`check_labels`, which words the error).
     """
     labels = tuple(labels)
     n = len(labels)
@@ -353,8 +365,8 @@ def form_of_element(algebra, element, labels):
             for mon, coeff in algebra.terms(element[key]):
                 term = ring.ground_new(convert(coeff, source))
                 for k, i in enumerate(where):
-                    gq, gm = algebra.var_index[k]
-                    if mon[gq]:
+                    gq, gm = _generators(algebra.var_index[k])
+                    if gq is not None and mon[gq]:
                         term = term * power("q", i, mon[gq])
                     if mon[gm]:
                         term = term * power("m", i, mon[gm])
@@ -366,7 +378,7 @@ def form_of_element(algebra, element, labels):
             for k, i in enumerate(where):
                 shift[i] = key[k]
             terms[tuple(shift)] = acc
-    return ActionForm(labels, ring, terms)
+    return ActionForm(labels, ring, terms, modes)
 
 
 def _compose_integer(algebra, poly, where, power, zring, ring, domain, source, den):
@@ -377,8 +389,8 @@ def _compose_integer(algebra, poly, where, power, zring, ring, domain, source, d
         values = (int(coeff.x), int(coeff.y)) if gaussian else (int(coeff), 0)
         factor = zring.one
         for k, i in enumerate(where):
-            gq, gm = algebra.var_index[k]
-            if mon[gq]:
+            gq, gm = _generators(algebra.var_index[k])
+            if gq is not None and mon[gq]:
                 factor = factor * power("q", i, mon[gq])
             if mon[gm]:
                 factor = factor * power("m", i, mon[gm])
@@ -402,14 +414,26 @@ _FORMS = {}
 _FORMS_MAX = 256
 
 
-def action_form(op, labels):
-    """The :class:`ActionForm` of the angular-momentum polynomial ``op`` over ``labels`` (cached).
+def slots(labels, modes=()):
+    """``(slot names, mode slot indices)``: the angular-momentum labels in the package's label order,
+    then the boson modes in that order (the one order of a state's values).
 
-    ``labels`` are put in the package's label order
-    (:func:`amalgebra._validation.label_key`).  Raises
-    :class:`~amalgebra.errors.OperatorError` when ``op`` contains a
-    noncommutative factor that is not a component of the angular momentum of
-    one of ``labels`` (e.g. an operator of another label than the ket's).
+    >>> slots(("S", "J"), ("b", "a"))
+    (('J', 'S', 'a', 'b'), (2, 3))
+    """
+    am = tuple(sorted(labels, key=label_key))
+    bosons = tuple(sorted(modes, key=label_key))
+    return am + bosons, tuple(range(len(am), len(am) + len(bosons)))
+
+
+def action_form(op, labels, modes=()):
+    """The :class:`ActionForm` of the polynomial ``op`` over ``labels`` and boson ``modes`` (cached).
+
+    The slots are ``labels`` then ``modes``, each in the package's label order
+    (:func:`slots`).  Raises :class:`~amalgebra.errors.OperatorError` when
+    ``op`` contains a noncommutative factor that is not a component of the
+    angular momentum of one of ``labels`` or a boson operator of one of
+    ``modes`` (e.g. an operator of another label than the ket's).
     Tensor components go through :func:`amalgebra.states.engine.compile_operator`.
 
     >>> from amalgebra.algebra import AngularMomentum
@@ -417,31 +441,51 @@ def action_form(op, labels):
     >>> list(action_form(J.x**2, ("J",)).terms)
     [(-2,), (0,), (2,)]
     """
-    labels = tuple(sorted(labels, key=label_key))
+    names, where = slots(labels, modes)
     if not isinstance(op, Expr):
         raise OperatorError(f"op={op!r} must be a SymPy expression")
-    key = (op, labels)
+    key = (op, names, where)
     form = _FORMS.get(key)
     if form is not None:
         return form
     algebra, (element,) = kernel_of(op)
-    check_labels(algebra, labels, op)
-    form = form_of_element(algebra, element, labels)
+    check_labels(algebra, names, op, where)
+    form = form_of_element(algebra, element, names, where)
     if len(_FORMS) >= _FORMS_MAX:
         _FORMS.pop(next(iter(_FORMS)))
     _FORMS[key] = form
     return form
 
 
-def check_labels(algebra, labels, op):
-    """Every label of the kernel ``algebra`` must be an angular momentum among ``labels``."""
+def check_labels(algebra, labels, op, modes=()):
+    """Every label of the kernel ``algebra`` must be a slot of ``labels`` of its kind.
+
+    An angular momentum must act on an angular-momentum slot, a boson operator
+    on a mode slot (``modes``: slot indices); anything else raises
+    :class:`~amalgebra.errors.OperatorError` naming the label.
+    """
+    boson_slots = [labels[i] for i in modes]
+    am_slots = [lab for i, lab in enumerate(labels) if i not in modes]
     for label, mode in zip(algebra.labels, algebra.modes):
-        if mode is not ANGULAR_MOMENTUM:
-            raise OperatorError(f"label={label!r} of op={op} must be an angular momentum: it is a {mode.kind} "
-                                f"mode, which acts on Fock kets (amalgebra.bosons), not on |j m> kets")
-        if label not in labels:
-            raise OperatorError(f"operator factor of label={label!r} in op={op} must act on one of the labels "
-                                f"of the state; the state carries {list(labels)}")
+        if mode is ANGULAR_MOMENTUM:
+            if label in boson_slots:
+                raise OperatorError(f"operator factor of label={label!r} in op={op} is an angular momentum, "
+                                    f"but {label!r} is a boson mode of the state (a Fock factor)")
+            if label not in am_slots:
+                raise OperatorError(f"operator factor of label={label!r} in op={op} must act on one of the "
+                                    f"labels of the state; the state carries {list(labels)}")
+        elif mode.kind == "boson":
+            if label in am_slots:
+                raise OperatorError(f"operator factor of label={label!r} in op={op} is a boson operator, "
+                                    f"but {label!r} is an angular momentum of the state (a |j m> factor); "
+                                    f"boson operators act on Fock kets and Fock factors of product kets")
+            if label not in boson_slots:
+                raise OperatorError(f"boson operator of mode={label!r} in op={op} must act on one of the "
+                                    f"modes of the state; the state carries modes {boson_slots}"
+                                    + ("" if boson_slots else " (none: give a Fock ket factor for the mode)"))
+        else:
+            raise OperatorError(f"label={label!r} of op={op} is a {mode.kind} mode, which no state of the "
+                                f"package carries")
 
 
 def clear_caches():

@@ -78,14 +78,14 @@ from functools import lru_cache
 
 from sympy import Add, Expr, I, Mul, S, expand, sqrt
 
-from .._validation import as_expression, label_key
+from .._validation import as_expression
 from ..algebra.convert import kernel_of, operator_power_base
 from ..algebra.extensions import claiming_extension
 from ..algebra.modes import mode_of
 from ..errors import OperatorError, QuantumNumberError
 from ..qnumbers import half_integer
 from ..tensors.wigner_eckart import check_convention, wigner_eckart_factor
-from .actionform import action_form, check_labels, form_of_element
+from .actionform import action_form, check_labels, form_of_element, slots
 
 __all__ = ["CompiledOperator", "compile_operator", "matrix_entries", "reduced_lookup", "check_reduced",
            "kernel_only", "atom_family", "clear_caches"]
@@ -94,7 +94,9 @@ __all__ = ["CompiledOperator", "compile_operator", "matrix_entries", "reduced_lo
 class CompiledOperator:
     """An operator prepared for acting on basis states (see the module docstring).
 
-    ``labels`` are the state's labels (package label order).  ``plan`` is
+    ``labels`` are the state's slots: its angular-momentum labels, then its
+    boson modes, each in the package label order; ``modes`` are the slot
+    indices of the modes (their values are ``(0, n)``).  ``plan`` is
     ``None`` for an angular-momentum polynomial, else the expression tree read
     for acting on numeric states (node -> how it acts); :attr:`terms` is the
     normal form as ``(coefficient, ActionForm, atoms)`` meaning
@@ -102,11 +104,12 @@ class CompiledOperator:
     states need it).  Not a SymPy object: a computation cache.
     """
 
-    __slots__ = ("op", "labels", "families", "plan", "_terms")
+    __slots__ = ("op", "labels", "modes", "families", "plan", "_terms")
 
-    def __init__(self, op, labels, families, plan, terms=None):
+    def __init__(self, op, labels, families, plan, terms=None, modes=()):
         self.op = op
         self.labels = labels
+        self.modes = modes
         self.families = families
         self.plan = plan
         self._terms = terms
@@ -119,7 +122,7 @@ class CompiledOperator:
     def terms(self):
         """The normal form, ``[(coefficient, ActionForm, tensor atoms)]`` (mixed form for tensors)."""
         if self._terms is None:
-            self._terms = _normal_terms(self.op, self.labels)
+            self._terms = _normal_terms(self.op, self.labels, self.modes)
         return self._terms
 
     def act(self, state, reduced=None, convention="edmonds", allowed=None):
@@ -551,36 +554,40 @@ _COMPILED = {}
 _COMPILED_MAX = 256
 
 
-def compile_operator(op, labels):
-    """The :class:`CompiledOperator` of ``op`` acting on states with ``labels`` (cached).
+def compile_operator(op, labels, modes=()):
+    """The :class:`CompiledOperator` of ``op`` acting on states with ``labels`` and boson ``modes`` (cached).
 
-    Raises :class:`~amalgebra.errors.OperatorError` when ``op`` is not an
-    operator polynomial, has a factor of a label the state does not carry
-    (a tensor component whose label is not a label of the state, an angular
-    momentum of another label), or contains boson operators (those act on
-    Fock kets).
+    The state's values are ``(j, m)`` per angular-momentum label, then
+    ``(0, n)`` per mode, in the order of
+    :func:`~amalgebra.states.actionform.slots`.  Raises
+    :class:`~amalgebra.errors.OperatorError` when ``op`` is not an operator
+    polynomial or has a factor of a label the state does not carry (a tensor
+    component whose label is not an angular-momentum label of the state, an
+    angular momentum of another label, a boson operator of a mode the state
+    lacks, an angular momentum on a mode or a boson operator on a ``|j m>`` label).
     """
-    labels = tuple(sorted(labels, key=label_key))
+    names, where = slots(labels, modes)
     if not isinstance(op, Expr):
         raise OperatorError(f"op={op!r} must be a SymPy expression")
-    key = (op, labels)
+    key = (op, names, where)
     hit = _COMPILED.get(key)
     if hit is not None:
         return hit
     if claiming_extension(op) is None:
         algebra, (element,) = kernel_of(op)
-        check_labels(algebra, labels, op)
-        compiled = CompiledOperator(op, labels, (), None, [(S.One, form_of_element(algebra, element, labels), ())])
+        check_labels(algebra, names, op, where)
+        form = form_of_element(algebra, element, names, where)
+        compiled = CompiledOperator(op, names, (), None, [(S.One, form, ())], where)
     else:
-        plan, families = _read_tree(op, labels)
-        compiled = CompiledOperator(op, labels, families, plan)
+        plan, families = _read_tree(op, names, where)
+        compiled = CompiledOperator(op, names, families, plan, modes=where)
     if len(_COMPILED) >= _COMPILED_MAX:
         _COMPILED.pop(next(iter(_COMPILED)))
     _COMPILED[key] = compiled
     return compiled
 
 
-def _read_tree(op, labels):
+def _read_tree(op, labels, modes=()):
     """``(plan, families)``: every noncommutative node of ``op`` -> how it acts; validates labels and atoms.
 
     Plan entries: ``("form", ActionForm)`` for an angular-momentum-only node
@@ -589,6 +596,8 @@ def _read_tree(op, labels):
     scalar)``, ``("mul", coefficient, factors)``, ``("pow", base, n)``.
     """
     _, TensorComponent, _, VectorComponent = _tensor_classes()
+    am_labels = [lab for i, lab in enumerate(labels) if i not in modes]
+    bosons = [labels[i] for i in modes]
     plan, families = {}, {}
     stack = [op]
     while stack:
@@ -596,13 +605,14 @@ def _read_tree(op, labels):
         if node in plan:
             continue
         if kernel_only(node):
-            plan[node] = ("form", action_form(node, labels))
+            plan[node] = ("form", action_form(node, am_labels, bosons))
         elif isinstance(node, (TensorComponent, VectorComponent)):
             family = atom_family(node)
-            if family.label not in labels:
+            if family.label not in am_labels:
+                where = "a boson mode of the state" if family.label in bosons else "not a label of the state"
                 raise OperatorError(f"{family} is a tensor under label={family.label!r}, which the state "
-                                    f"must carry to declare the space it acts on; the state carries "
-                                    f"{list(labels)}")
+                                    f"must carry as an angular momentum to declare the space it acts on; "
+                                    f"{family.label!r} is {where} (labels {am_labels}, modes {bosons})")
             view, parts = _spherical_parts(node)
             families[family] = None
             plan[node] = ("atom", view, parts, family, labels.index(family.label))
@@ -636,14 +646,14 @@ def _read_tree(op, labels):
     return plan, tuple(families)
 
 
-def _normal_terms(op, labels):
+def _normal_terms(op, labels, modes=()):
     """The mixed normal form of ``op`` as ``[(coefficient, ActionForm of A_W, tensor atoms of W)]``."""
     mixed, (element,) = claiming_extension(op).kernel(op)
     kernel = mixed.kernel
-    check_labels(kernel, labels, op)
+    check_labels(kernel, labels, op, modes)
     terms = []
     for m, word in sorted(element, key=lambda k: (len(k[1]), k)):
-        form = form_of_element(kernel, element[(m, word)], labels)
+        form = form_of_element(kernel, element[(m, word)], labels, modes)
         for factor, atoms in mixed._word_out(m, word):
             terms.append((factor, form, tuple(atoms)))
     return terms

@@ -86,7 +86,6 @@ __all__ = [
     "inner",
     "norm",
     "normalize",
-    "register_state_family",
 ]
 
 def _label(label):
@@ -194,11 +193,10 @@ def _side(obj):
 
 
 def _labels(state):
-    """The labels of the space of a state (its ``label``, ``labels`` or Fock ``modes``), sorted."""
-    for name in ("labels", "modes"):
-        found = getattr(state, name, None)
-        if found is not None:
-            return sorted(found)
+    """The labels of the space of a state (its ``label``, ``labels`` and Fock ``modes``), sorted."""
+    found = [*(getattr(state, "labels", None) or ()), *(getattr(state, "modes", None) or ())]
+    if found:
+        return sorted(found)
     label = getattr(state, "label", None)
     return None if label is None else [label]  # None: a family that names no labels is not compared
 
@@ -325,19 +323,44 @@ class Bra(_StateMixin, Expr):
 _dual_pair(Ket, Bra)
 
 
+# Fock kets and bras (amalgebra.bosons.fock) declare themselves here when that module is imported, so a
+# product state may hold one Fock factor after its |j m> factors (no Fock ket exists before the import)
+_MODE_STATES = {}
+
+
+def _declare_mode_states(ket_class, bra_class):
+    """Internal: the Fock ket and bra classes, the boson-mode factors of product states."""
+    _MODE_STATES[Ket] = ket_class
+    _MODE_STATES[Bra] = bra_class
+
+
 def _factors(items, kind, name):
-    flat = []
+    """The factors of a product state: ``kind`` factors sorted by label, then one merged Fock factor."""
+    fock = _MODE_STATES.get(kind)
+    flat, occupations = [], {}
     for item in items:
-        if isinstance(item, kind):
-            flat.append(item)
-        elif isinstance(item, (ProductKet, ProductBra)) and isinstance(item.args[0], kind):
-            flat.extend(item.args)
-        else:
-            raise StateError(f"{name}={item} must be a {kind.__name__} or a product of them")
+        parts = item.args if isinstance(item, (ProductKet, ProductBra)) else (item,)
+        for part in parts:
+            if isinstance(part, kind):
+                flat.append(part)
+            elif fock is not None and isinstance(part, fock):
+                for mode, n in part.as_dict().items():
+                    if mode in occupations:
+                        raise StateError(f"modes must be distinct in a product state: {mode!r} is repeated")
+                    occupations[mode] = n
+            else:
+                allowed = kind.__name__ + (f", {fock.__name__}" if fock is not None else "")
+                raise StateError(f"{name}={item} must be a {allowed} or a product of them")
     flat.sort(key=lambda k: _label_key(k.label))
     labels = [k.label for k in flat]
     if len(set(labels)) != len(labels):
         raise StateError(f"labels={labels} must be distinct in a product state")
+    shared = sorted(set(labels) & set(occupations))
+    if shared:
+        raise StateError(f"label={shared[0]!r} must not be both an angular momentum and a boson mode of a "
+                         f"product state")
+    if occupations:
+        flat.append(fock(tuple(occupations), tuple(occupations.values())))
     return flat
 
 
@@ -356,7 +379,14 @@ class _ProductMixin(_DualState):
 
     @property
     def labels(self):
-        return tuple(f.label for f in self.args)
+        """The angular-momentum labels (of the ``|j m>`` factors), in label order."""
+        return tuple(f.label for f in self.args if isinstance(f, _StateMixin))
+
+    @property
+    def modes(self):
+        """The boson modes of the Fock factor, sorted (``()`` without one)."""
+        last = self.args[-1]
+        return () if isinstance(last, _StateMixin) else last.modes
 
     def _dual_args(self):
         return [f.dual() for f in self.args]
@@ -370,7 +400,10 @@ class ProductKet(_ProductMixin, Expr):
 
     Args are the :class:`Ket` factors sorted by label, so the product is
     canonical: the order of construction does not matter.  A product of one
-    factor is that ket itself.
+    factor is that ket itself.  A spin-boson state has one Fock factor
+    (:class:`~amalgebra.bosons.FockKet`) after them: Fock kets given as
+    factors are merged into it (``labels`` names the ``|j m>`` factors, ``modes``
+    the boson modes).
 
     Examples
     ========
@@ -381,6 +414,10 @@ class ProductKet(_ProductMixin, Expr):
     True
     >>> ProductKet(a)
     |1, 0>_S
+    >>> from amalgebra.bosons import fock_ket
+    >>> k = ProductKet(fock_ket(1, modes="c"), a, fock_ket(0, modes="b"))
+    >>> k, k.labels, k.modes
+    (|1, 0>_S|0, 1>_(b,c), ('S',), ('b', 'c'))
     """
 
     __slots__ = ()
@@ -388,9 +425,12 @@ class ProductKet(_ProductMixin, Expr):
     _factor_class = Ket
 
     @classmethod
-    def _unchecked(cls, kets):
-        """Internal: product of validated kets with distinct labels (sorted here)."""
-        return Expr.__new__(cls, *sorted(kets, key=lambda k: _label_key(k.label)))
+    def _unchecked(cls, kets, fock=None):
+        """Internal: product of validated kets with distinct labels (sorted here), then a Fock factor."""
+        args = sorted(kets, key=lambda k: _label_key(k.label))
+        if fock is not None:
+            args.append(fock)
+        return Expr.__new__(cls, *args)
 
 
 class ProductBra(_ProductMixin, Expr):
@@ -415,6 +455,13 @@ _dual_pair(ProductKet, ProductBra)
 
 _KETS = (Ket, ProductKet)
 _BRAS = (Bra, ProductBra)
+
+
+def _kinds(side):
+    """The basis classes of one side (``Ket`` or ``Bra``): |j m>, products, and Fock states once declared."""
+    base = _KETS if side is Ket else _BRAS
+    fock = _MODE_STATES.get(side)
+    return base if fock is None else base + (fock,)
 
 
 def ket(j, m, label="J"):
@@ -453,18 +500,28 @@ def product_ket(*kets):
     return ProductKet(*kets)
 
 
-def components(state, kinds=_KETS, name="state"):
+def components(state, kinds=None, name="state"):
     """Return a linear combination of kets (or bras) as a dict ``{basis: coefficient}``.
 
-    The walk is linear: sums, commutative factors and the basis objects; keys
-    keep first-appearance order and coefficients that vanish identically are
-    dropped.  Anything else raises :class:`~amalgebra.errors.StateError`.
+    The walk is linear: sums, commutative factors and the basis objects (kets,
+    product kets, Fock kets; coupled kets through their product expansion);
+    a product ``|a>_J |n>_b`` of kets of distinct spaces is read as the
+    product ket.  ``kinds`` is ``None`` (kets), ``"bra"`` (bras) or a tuple of
+    basis classes.  Keys keep first-appearance order and coefficients that
+    vanish identically are dropped.  Anything else raises
+    :class:`~amalgebra.errors.StateError`.
 
     >>> from sympy import Symbol
     >>> a = Symbol("a")
     >>> components(a * (ket(1, 0) + ket(1, 1)) - a * ket(1, 1))
     {|1, 0>_J: a}
+    >>> components(2 * ket(0, 0, "L") * ket("1/2", "1/2", "S"))
+    {|0, 0>_L|1/2, 1/2>_S: 2}
     """
+    if kinds is None or kinds == _KETS:
+        kinds = _kinds(Ket)
+    elif kinds == "bra" or kinds == _BRAS:
+        kinds = _kinds(Bra)
     parts = {}
     _walk(state, S.One, parts, kinds, name)
     out = {}
@@ -478,9 +535,9 @@ def components(state, kinds=_KETS, name="state"):
 def _walk(expr, coeff, parts, kinds, name):
     if isinstance(expr, kinds):
         parts.setdefault(expr, []).append(coeff)
-    elif hasattr(expr, "_as_product_kets") and kinds == _KETS or hasattr(expr, "_as_product_bras") and kinds == _BRAS:
+    elif hasattr(expr, "_as_product_kets") and Ket in kinds or hasattr(expr, "_as_product_bras") and Bra in kinds:
         # coupled kets and bras enter through their product-ket expansion
-        expansion = expr._as_product_kets() if kinds == _KETS else expr._as_product_bras()
+        expansion = expr._as_product_kets() if Ket in kinds else expr._as_product_bras()
         for basis, c in expansion.items():
             parts.setdefault(basis, []).append(coeff * c)
     elif isinstance(expr, Add):
@@ -488,6 +545,9 @@ def _walk(expr, coeff, parts, kinds, name):
             _walk(arg, coeff, parts, kinds, name)
     elif isinstance(expr, Mul):
         c, nc = expr.args_cnc()
+        if len(nc) > 1 and all(isinstance(f, kinds) for f in nc) and (Ket in kinds or Bra in kinds):
+            # |a>_J |n>_b written as a product: the product state over distinct spaces
+            nc = [(ProductKet if Ket in kinds else ProductBra)(*nc)]
         if len(nc) != 1:
             raise StateError(f"{name}={expr} must be a linear combination of "
                              f"{' or '.join(k.__name__ for k in kinds)} objects")
@@ -528,43 +588,42 @@ def tensor(*states):
 
 
 def _factor_map(basis):
-    """{label: (j, m)} of a basis ket or bra."""
+    """{label: (j, m)} of the ``|j m>`` factors of a basis ket or bra (a Fock factor has none)."""
     factors = basis.args if isinstance(basis, (ProductKet, ProductBra)) else (basis,)
-    return {f.label: (f.j, f.m) for f in factors}
+    return {f.label: (f.j, f.m) for f in factors if isinstance(f, _StateMixin)}
+
+
+def _mode_map(basis):
+    """{mode: n} of the Fock factor of a basis ket or bra ({} without one)."""
+    last = basis.args[-1] if isinstance(basis, (ProductKet, ProductBra)) else basis
+    return {} if isinstance(last, _StateMixin) else last.as_dict()
 
 
 def _basis_overlap(b, k):
     fb, fk = _factor_map(b), _factor_map(k)
-    if sorted(fb) != sorted(fk):
-        raise StateError(f"bra={b} and ket={k} must carry the same labels, got {sorted(fb)} and {sorted(fk)}")
+    nb, nk = _mode_map(b), _mode_map(k)
+    if sorted(fb) != sorted(fk) or sorted(nb) != sorted(nk):
+        raise StateError(f"bra={b} and ket={k} must carry the same labels, got {sorted(fb) + sorted(nb)} "
+                         f"and {sorted(fk) + sorted(nk)}")
     return Mul(*[KroneckerDelta(fb[lab][0], fk[lab][0]) * KroneckerDelta(fb[lab][1], fk[lab][1])
-                 for lab in sorted(fb)])
+                 for lab in sorted(fb)], *[KroneckerDelta(nb[mode], nk[mode]) for mode in sorted(nb)])
 
 
-# other state families (Fock kets) register here on import: (ket classes, bra classes, apply, inner)
-_FAMILIES = []
+def _register_state_family(kets, bras, apply_fn, inner_fn):
+    """The former hook for state families outside this package; now without effect (see ``__getattr__``)."""
 
 
-def register_state_family(kets, bras, apply_fn, inner_fn):
-    """Let a state family outside this package (Fock kets) be reached by :func:`apply` and friends.
+def __getattr__(name):
+    # deprecated since 0.2.0: Fock kets and spin-boson product kets go through the one engine, so there is
+    # no second dispatch to register into; the name stays importable and does nothing
+    if name == "register_state_family":
+        import warnings
 
-    ``kets``/``bras`` are tuples of classes; ``apply_fn(op, state)`` and
-    ``inner_fn(bra, ket)`` do the work.  Registering twice is a no-op.
-
-    >>> from amalgebra.states.kets import register_state_family
-    >>> register_state_family((), (), None, None)
-    """
-    entry = (tuple(kets), tuple(bras), apply_fn, inner_fn)
-    if entry not in _FAMILIES and entry[0]:
-        _FAMILIES.append(entry)
-
-
-def _family_of(state, which):
-    """The registered family whose kets (``which=0``) or bras (1) appear in ``state``, or None."""
-    for family in _FAMILIES:
-        if state.has(*family[which]):
-            return family
-    return None
+        warnings.warn("register_state_family is deprecated since amalgebra 0.2.0 and does nothing: Fock kets "
+                      "and spin-boson product kets act through amalgebra.states.apply directly",
+                      DeprecationWarning, stacklevel=2)
+        return _register_state_family
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 
 def inner(bra_state, ket_state):
@@ -595,13 +654,10 @@ def inner(bra_state, ket_state):
 
     norm
     """
-    family = _family_of(ket_state, 0) if _FAMILIES and hasattr(ket_state, "has") else None
-    if family is not None:
-        return family[3](bra_state if _family_of(bra_state, 1) else adjoint(bra_state), ket_state)
     if not _is_bra_like(bra_state):
         bra_state = adjoint(bra_state)
-    bras = components(bra_state, _BRAS, "bra")
-    kets = components(ket_state, _KETS, "ket")
+    bras = components(bra_state, "bra", "bra")
+    kets = components(ket_state, None, "ket")
     numeric = {k: c for k, c in kets.items() if _is_numeric_basis(k)}
     symbolic = [(k, c) for k, c in kets.items() if k not in numeric]
     terms = []
@@ -621,12 +677,13 @@ def inner(bra_state, ket_state):
 
 
 def _is_numeric_basis(basis):
-    return all(x.is_Rational for jm in _factor_map(basis).values() for x in jm)
+    return (all(x.is_Rational for jm in _factor_map(basis).values() for x in jm)
+            and all(n.is_Integer for n in _mode_map(basis).values()))
 
 
 def _is_bra_like(state):
     try:
-        components(state, _BRAS, "bra")
+        components(state, "bra", "bra")
     except StateError:
         return False
     return True

@@ -132,7 +132,7 @@ def test_vacuum_is_annihilated():
 
 @pytest.mark.parametrize("op, state, error", [
     (AngularMomentum("J").plus, fock_ket(1, 1), OperatorError),
-    (BosonMode("c").create, fock_ket(1, 1), StateError),
+    (BosonMode("c").create, fock_ket(1, 1), OperatorError),     # a mode the state lacks, as for a label
     (Ad, AngularMomentum("J").plus, StateError),
     (Ad, fock_bra(1, 0), StateError),
     (Ad, "ket", StateError),
