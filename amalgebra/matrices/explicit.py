@@ -100,21 +100,28 @@ _KINDS = ("exact", "float", "sparse")
 _LISTS = (list, tuple, Tuple)
 
 
-def _check_j(j):
-    """``(spaces, listed)``: label -> tuple of j values (package label order), and whether a list was given.
+def _check_j(j, bosons=()):
+    """``(spaces, occupations, listed)``: label -> tuple of j values, mode -> tuple of occupations (both in
+    package label order), and whether a list of j values was given.
 
-    The space is read by the one reader, :func:`amalgebra.states.basis.read_space`
-    (``OperatorError`` for a malformed dict or label, as everywhere in ``to_matrix``).
+    The space is read by the one reader, :func:`amalgebra.states.basis.read_spaces`
+    (``OperatorError`` for a malformed dict or label, as everywhere in ``to_matrix``);
+    ``bosons`` are the modes of the operator, each of which needs a cutoff.
     """
-    from ..states.basis import read_space
+    from ..states.basis import read_spaces
 
-    spaces = read_space(j, "j", OperatorError)
-    return spaces, any(isinstance(v, _LISTS) for v in j.values())
+    spaces, occupations = read_spaces(j, bosons, "j", OperatorError)
+    for mode in bosons:
+        if mode not in occupations:
+            raise OperatorError(f"mode={mode!r} of the operator must have an occupation cutoff in j: give "
+                                f"j[{mode!r}] = n_max (occupations 0..n_max) or a range of occupations")
+    return spaces, occupations, any(isinstance(v, _LISTS) for v in j.values())
 
 
-def _check_size(spaces, kind):
+def _check_size(spaces, kind, occupations=None):
     """Refuse, before any work, a space beyond the limits of :mod:`amalgebra.limits`."""
     dim = prod(sum(int(2 * jv) + 1 for jv in js) for js in spaces.values())
+    dim *= prod(len(ns) for ns in (occupations or {}).values())
     check_limit("max_dimension", dim, "dimension", "the product over labels of the sums of 2j + 1 in j")
     if kind != "sparse":
         check_limit("max_dense_entries", dim * dim, "dimension^2", f"entries of a dense {kind} matrix; "
@@ -265,12 +272,18 @@ def to_matrix(expr, j, kind="exact", subs=None, reduced=None, convention="edmond
     if kind not in _KINDS:
         raise ConventionError(f"kind={kind!r} must be one of {', '.join(_KINDS)}")
     convention = check_convention(convention)
-    spaces, listed = _check_j(j)
-    _check_size(spaces, kind)
+    from ..states.basis import boson_labels
+
+    bosons = boson_labels(expr)
+    spaces, occupations, listed = _check_j(j, bosons)
+    _check_size(spaces, kind, occupations)
     table = check_reduced(reduced)
     expr = _check_expr(expr)
-    if kind == "exact":
-        matrix = _exact(expr, spaces, subs, table, convention)
+    if kind == "exact" or occupations:
+        # boson modes: the float kinds are the exact P O P in numbers (one route, no float ladder of its own)
+        matrix = _exact(expr, spaces, subs, table, convention, occupations)
+        if kind != "exact":
+            matrix = _numeric_from_exact(matrix, kind)
     elif listed or not kernel_only(expr) or list(spaces) != sorted(spaces):
         # (the vectorised read-off below follows the kernel's plain string order of labels; when the
         # package's label order differs, e.g. S2 < S10, the product route keeps the one order)
@@ -282,19 +295,29 @@ def to_matrix(expr, j, kind="exact", subs=None, reduced=None, convention="edmond
         from ..states.basis import product_basis
         from ..states.hamiltonian import OperatorMatrix
 
-        return OperatorMatrix(matrix, product_basis(j))
+        return OperatorMatrix(matrix, product_basis(j, bosons))
     return matrix
 
 
-def _exact(expr, spaces, subs, table, convention):
-    """The exact matrix through the one engine (:mod:`amalgebra.states.engine`), on the product basis."""
+def _exact(expr, spaces, subs, table, convention, occupations=None):
+    """The exact matrix through the one engine (:mod:`amalgebra.states.engine`), on the product basis.
+
+    Boson modes (``occupations``: mode -> occupations kept) come after the
+    angular momenta; the operator acts on each column state exactly and the
+    image is cut to the kept occupations, so the matrix is ``P O P`` with
+    ``P`` the projector on the truncated space (not a product of truncated
+    ladder matrices: ``P a P a^dagger P`` differs from ``P a a^dagger P`` at
+    the cutoff).
+    """
     from ..states.engine import compile_operator, matrix_entries
 
     labels = list(spaces)
+    modes = list(occupations or {})
     per_label = [multiplet_basis(spaces[label]) for label in labels]
+    per_label += [[(S.Zero, n) for n in occupations[mode]] for mode in modes]
     states = [tuple(v) for v in product(*per_label)]
     try:
-        compiled = compile_operator(expr, labels)
+        compiled = compile_operator(expr, labels, modes)
     except OperatorError as exc:
         raise OperatorError(str(exc).replace("of the state", "given a j value").replace(
             "the state carries", "j has").replace("which the state must carry", "which j must give")) from None
@@ -303,6 +326,29 @@ def _exact(expr, spaces, subs, table, convention):
     out = zeros(n, n)
     for (r, c), value in entries.items():
         out[r, c] = value
+    return out
+
+
+def _numeric_from_exact(matrix, kind):
+    """A float (numpy) or sparse (scipy) array of an exact matrix whose entries are numbers."""
+    np = require_numpy()
+    entries = {}
+    for (r, c), value in matrix.todok().items():
+        if value.free_symbols:
+            names = ", ".join(sorted(str(x) for x in value.free_symbols))
+            raise NotNumericError(f"entry [{r}, {c}]={value} must be numeric for a {kind} matrix: give subs "
+                                  f"for {names} or use kind='exact'")
+        entries[(r, c)] = complex(value)
+    complex_needed = any(v.imag != 0 for v in entries.values())
+    dtype = complex if complex_needed else float
+    n = matrix.rows
+    rows = np.array([r for r, _ in entries], dtype=int)
+    cols = np.array([c for _, c in entries], dtype=int)
+    data = np.array([v if complex_needed else v.real for v in entries.values()], dtype=dtype)
+    if kind == "sparse":
+        return require_scipy_sparse().csr_array((data, (rows, cols)), shape=(n, n))
+    out = np.zeros((n, n), dtype=dtype)
+    out[rows, cols] = data
     return out
 
 
@@ -528,13 +574,20 @@ def verify_identity(lhs, rhs, j_values, subs=None, reduced=None):
 
     IdentityCheck
     """
+    from ..states.basis import boson_labels
+
+    bosons = tuple(sorted(set(boson_labels(lhs)) | set(boson_labels(rhs)), key=label_key))
     checked = []
     for js in _j_sets(j_values):
+        spaces, occupations, _ = _check_j(js, bosons)
+        # a mode's cutoff as a range, so that a side without that mode (a scalar) still reads it as a mode
+        js = {label: (range(occupations[label][0], occupations[label][-1] + 1) if label in occupations
+                      else value) for label, value in js.items()}
         left = to_matrix(lhs, js, reduced=reduced)
         right = to_matrix(rhs, js, reduced=reduced)
-        spaces, _ = _check_j(js)
         labels = list(spaces)
         jv = {label: spaces[label] if isinstance(js[label], _LISTS) else spaces[label][0] for label in labels}
+        jv.update({mode: js[mode] for mode in occupations})
         checked.append(jv)
         for r in range(left.rows):
             for c in range(left.cols):
@@ -542,19 +595,21 @@ def verify_identity(lhs, rhs, j_values, subs=None, reduced=None):
                 if subs:
                     a, b = a.subs(subs), b.subs(subs)
                 if not _same(a, b):
-                    mm = {"j": jv, "row": r, "col": c, "m_row": _ms(jv, labels, r),
-                          "m_col": _ms(jv, labels, c), "lhs": a, "rhs": b}
+                    mm = {"j": jv, "row": r, "col": c, "m_row": _ms(jv, labels + list(occupations), r),
+                          "m_col": _ms(jv, labels + list(occupations), c), "lhs": a, "rhs": b}
                     return IdentityCheck(False, mm, checked)
     return IdentityCheck(True, None, checked)
 
 
 def _ms(jv, labels, index):
-    """The basis state of ``index``: per label ``m``, or ``(j, m)`` for a direct sum."""
-    bases = [multiplet_basis(jv[label] if isinstance(jv[label], tuple) else (jv[label],)) for label in labels]
+    """The basis state of ``index``: per label ``m``, or ``(j, m)`` for a direct sum; ``n`` for a mode."""
+    bases = [list(jv[label]) if isinstance(jv[label], range) else
+             multiplet_basis(jv[label] if isinstance(jv[label], tuple) else (jv[label],)) for label in labels]
     out = []
     for i in reversed(range(len(labels))):
         index, c = divmod(index, len(bases[i]))
-        out.append(bases[i][c] if isinstance(jv[labels[i]], tuple) else bases[i][c][1])
+        value = jv[labels[i]]
+        out.append(bases[i][c] if isinstance(value, (tuple, range)) else bases[i][c][1])
     return tuple(reversed(out))
 
 

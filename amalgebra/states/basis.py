@@ -14,7 +14,12 @@ Every explicit matrix of the package (:func:`amalgebra.matrices.explicit.to_matr
 * several labels: the Kronecker product over the labels in the package's
   label order (:func:`amalgebra._validation.label_key`: alphabetical, with
   ``S2`` before ``S10``), the first label outermost (slowest varying), as
-  ``numpy.kron(A_first, A_second)``.
+  ``numpy.kron(A_first, A_second)``;
+* boson modes (a truncated Fock space per mode, ``{"a": 3}`` for an operator
+  that uses mode ``a``, meaning :math:`n_a = 0, \dots, 3`, or
+  ``{"a": range(2, 6)}``): after all angular-momentum labels, the modes in
+  label order, the first mode outermost, ``n`` ascending within each.  Each
+  state is then a product ket with one Fock factor.
 
 A coupled basis (:func:`~amalgebra.states.coupled.coupled_basis`) or a list of
 states given by the user keeps its own order.  :meth:`Basis.index` finds a
@@ -45,9 +50,9 @@ from .. import notation
 from .._validation import label_key
 from ..errors import StateError
 from ..qnumbers import half_integer
-from .kets import Ket, ProductKet, _factor_map, components
+from .kets import Ket, ProductKet, _factor_map, _mode_map, components
 
-__all__ = ["Basis", "product_basis", "read_space"]
+__all__ = ["Basis", "product_basis", "read_space", "read_spaces", "boson_labels"]
 
 _LISTS = (list, tuple)
 
@@ -99,6 +104,63 @@ def read_space(j, name="j", error=StateError):
     return out
 
 
+def boson_labels(expr):
+    """The labels of the boson modes that an operator expression acts on (a sorted tuple).
+
+    >>> from amalgebra.bosons import BosonMode
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> boson_labels(AngularMomentum("J").plus * BosonMode("b").annihilate + BosonMode("a").number)
+    ('a', 'b')
+    """
+    from ..bosons.operators import BosonOperator
+
+    if not hasattr(expr, "atoms"):
+        return ()
+    return tuple(sorted({atom.args[0].name for atom in expr.atoms(BosonOperator)}, key=label_key))
+
+
+def read_spaces(j, modes=(), name="j", error=StateError):
+    """``(spaces, occupations)``: :func:`read_space` for the angular momenta, and the truncated Fock spaces.
+
+    A label in ``modes`` (the boson modes of the operator, :func:`boson_labels`)
+    takes an occupation cutoff ``n_max`` (occupations ``0, ..., n_max``) or a
+    ``range`` of occupations; a ``range`` value always means a mode (so a mode
+    the operator does not touch can be carried along).  ``occupations`` maps
+    each mode, in label order, to its tuple of occupations (ascending).
+
+    >>> read_spaces({"J": "1/2", "a": 2}, modes=("a",))
+    ({'J': (1/2,)}, {'a': (0, 1, 2)})
+    >>> read_spaces({"J": 1, "b": range(1, 3)})
+    ({'J': (1,)}, {'b': (1, 2)})
+    """
+    from ..bosons.fock import occupation
+    from ..errors import QuantumNumberError
+
+    if not isinstance(j, dict) or not j:
+        raise error(f"{name}={j!r} must be a non-empty dict label -> j value or list of j values, "
+                    f"e.g. {{'J': '3/2'}}")
+    am = {label: value for label, value in j.items() if str(label) not in modes and not isinstance(value, range)}
+    occupations = {}
+    for label in sorted((lab for lab in j if lab not in am), key=lambda lab: label_key(str(lab))):
+        value, where = j[label], f"{name}[{str(label)!r}]"
+        if isinstance(value, range):
+            if len(value) == 0 or value.step < 0 or value.start < 0:
+                raise QuantumNumberError(f"{where}={value!r} must be a non-empty ascending range of "
+                                         f"occupations >= 0")
+            ns = tuple(S(n) for n in value)
+        elif isinstance(value, _LISTS):
+            raise QuantumNumberError(f"{where}={value!r} must be an occupation cutoff n_max (occupations "
+                                     f"0..n_max) or a range of occupations: {str(label)!r} is a boson mode")
+        else:
+            top = occupation(value, where)
+            if not top.is_Integer:
+                raise QuantumNumberError(f"{where}={value} must be a numeric occupation cutoff")
+            ns = tuple(S(n) for n in range(int(top) + 1))
+        occupations[str(label)] = ns
+    spaces = read_space(am, name, error) if am else {}
+    return spaces, occupations
+
+
 def _multiplets(js):
     return [(jv, jv - i) for jv in js for i in range(int(2 * jv) + 1)]
 
@@ -128,17 +190,18 @@ class Basis(Printable):
     True
     """
 
-    __slots__ = ("labels", "states", "_index", "_values")
+    __slots__ = ("labels", "modes", "states", "_index", "_values")
 
-    def __init__(self, states, labels, values=None):
+    def __init__(self, states, labels, values=None, modes=()):
         self.states = tuple(states)
         self.labels = tuple(labels)
+        self.modes = tuple(modes)
         self._values = None if values is None else tuple(values)
         self._index = {s: i for i, s in enumerate(self.states)}
 
     @property
     def values(self):
-        """Per state, the tuple of ``(j, m)`` per label (product bases), else ``None``."""
+        """Per state, the tuple of ``(j, m)`` per label then the occupation per mode (product bases), else ``None``."""
         return self._values
 
     def __len__(self):
@@ -151,10 +214,11 @@ class Basis(Printable):
         return self.states[i]
 
     def __eq__(self, other):
-        return isinstance(other, Basis) and self.states == other.states and self.labels == other.labels
+        return (isinstance(other, Basis) and self.states == other.states and self.labels == other.labels
+                and self.modes == other.modes)
 
     def __hash__(self):
-        return hash((self.states, self.labels))
+        return hash((self.states, self.labels, self.modes))
 
     def index(self, state):
         """The position of ``state`` (a ket of this basis); StateError when it is not one.
@@ -171,6 +235,7 @@ class Basis(Printable):
     def quantum_numbers(self, i):
         """``{"M": total m, label: (j, m), ...}`` of state ``i``, plus ``"F"`` (total J) for a coupled ket.
 
+        With boson modes also ``"N"`` (the total occupation) and ``mode: n``.
         Keys that the state does not have definitely (a combination of
         different m) are left out.
         """
@@ -178,8 +243,12 @@ class Basis(Printable):
         out = {}
         if self._values is not None:
             values = self._values[i]
-            out["M"] = sum((m for _, m in values), S.Zero)
-            out.update({label: pair for label, pair in zip(self.labels, values)})
+            pairs, ns = values[:len(self.labels)], values[len(self.labels):]
+            out["M"] = sum((m for _, m in pairs), S.Zero)
+            out.update({label: pair for label, pair in zip(self.labels, pairs)})
+            if self.modes:
+                out["N"] = sum(ns, S.Zero)
+                out.update(zip(self.modes, ns))
             return out
         if hasattr(state, "J") and hasattr(state, "M") and hasattr(state, "intermediates"):
             out["M"], out["F"] = state.M, state.J
@@ -188,13 +257,18 @@ class Basis(Printable):
         ms = {sum((m for _, m in _factor_map(b).values()), S.Zero) for b in comps}
         if len(ms) == 1:
             out["M"] = ms.pop()
+        if self.modes:
+            ns = {sum(_mode_map(b).values(), S.Zero) for b in comps}
+            if len(ns) == 1:
+                out["N"] = ns.pop()
         return out
 
     def select(self, **wanted):
         """Indices of the states whose quantum numbers match ``wanted`` (a tuple, basis order).
 
         Keys: ``M`` (total projection), ``F`` (total angular momentum of a
-        coupled ket), or a label: ``L=(j, m)`` or ``L=j`` (any m).
+        coupled ket), ``N`` (total boson occupation), a label: ``L=(j, m)`` or
+        ``L=j`` (any m), or a mode: ``a=n``.
 
         >>> product_basis({"I": "1/2", "J": "1/2"}).select(M=0)
         (1, 2)
@@ -224,7 +298,8 @@ class Basis(Printable):
         return "\n".join(f"{i}: {s}" for i, s in enumerate(self.states))
 
     def __repr__(self):
-        return f"Basis({len(self.states)} states, labels={list(self.labels)})"
+        modes = f", modes={list(self.modes)}" if self.modes else ""
+        return f"Basis({len(self.states)} states, labels={list(self.labels)}{modes})"
 
     def _sympystr(self, printer):
         return repr(self)
@@ -233,8 +308,12 @@ class Basis(Printable):
         return notation.basis_latex(printer, self, exp)
 
 
-def product_basis(j):
+def product_basis(j, modes=()):
     """The product :class:`Basis` of the space ``{label: j or [j values]}`` in the one order (module docstring).
+
+    ``modes`` names the labels that are boson modes (their values are
+    occupation cutoffs, see :func:`read_spaces`; a ``range`` value is a mode
+    anyway).
 
     Examples
     ========
@@ -249,13 +328,24 @@ def product_basis(j):
     >>> b = product_basis({"I": "3/2", "J": 1})
     >>> len(b) == (2 * 3/2 + 1) * (2 * 1 + 1), b.select(M=Rational(5, 2))
     (True, (0,))
+
+    A spin-1/2 and one boson mode cut at two quanta (the modes come last, ``n`` ascending):
+
+    >>> [str(s) for s in product_basis({"S": "1/2", "a": 1}, modes=("a",))]
+    ['|1/2, 1/2>_S|0>_(a)', '|1/2, 1/2>_S|1>_(a)', '|1/2, -1/2>_S|0>_(a)', '|1/2, -1/2>_S|1>_(a)']
     """
-    spaces = read_space(j)
-    labels = list(spaces)
-    per_label = [_multiplets(spaces[label]) for label in labels]
+    spaces, occupations = read_spaces(j, modes)
+    labels, bosons = list(spaces), list(occupations)
+    per_label = [_multiplets(spaces[label]) for label in labels] + [occupations[mode] for mode in bosons]
     values = list(product(*per_label))
     states = []
+    if bosons:
+        from ..bosons.fock import FockKet
     for vals in values:
         kets = [Ket._unchecked(jv, m, label) for label, (jv, m) in zip(labels, vals)]
-        states.append(kets[0] if len(kets) == 1 else ProductKet._unchecked(kets))
-    return Basis(states, labels, values)
+        if bosons:
+            fock = FockKet._unchecked(bosons, vals[len(labels):])
+            states.append(fock if not kets else ProductKet._unchecked(kets, fock))
+        else:
+            states.append(kets[0] if len(kets) == 1 else ProductKet._unchecked(kets))
+    return Basis(states, labels, values, bosons)

@@ -103,11 +103,11 @@ from .._deadline import Deadline
 from ..notation import NotationHooks
 from ..errors import StateError
 from ..qnumbers import half_integer
-from .basis import Basis, product_basis, read_space
+from .basis import Basis, boson_labels, product_basis, read_spaces
 from .coupled import CoupledKet, coupled_basis
 from .eigen import DEFAULT_TIME_BUDGET, block_eigenvalues
 from .engine import compile_operator
-from .kets import Ket, ProductKet, _factor_map, _label_key, components
+from .kets import Ket, ProductKet, _factor_map, _label_key, _mode_map, components
 
 __all__ = ["hamiltonian_matrix", "HamiltonianMatrix", "OperatorMatrix", "Block", "operator_matrix"]
 
@@ -383,14 +383,18 @@ def hamiltonian_matrix(op, js, basis="uncoupled", *, reduced=None, convention="e
     from ..matrices.explicit import to_matrix
 
     labels, given = _read_js(js)
-    spaces = read_space(given, "js")
-    unc = product_basis(given)
+    bosons = boson_labels(op)
+    spaces, occupations = read_spaces(given, bosons, "js")
+    unc = product_basis(given, bosons)
     if isinstance(basis, str):
         if basis == "uncoupled":
             mat = to_matrix(op, given, reduced=reduced, convention=convention)
             return HamiltonianMatrix(mat, unc, *_find_blocks(mat, unc))
         if basis != "coupled":
             raise StateError(f"basis={basis!r} must be 'uncoupled', 'coupled' or a list of states")
+        if occupations:
+            raise StateError(f"basis='coupled' couples angular momenta only; with the boson modes "
+                             f"{list(occupations)} use basis='uncoupled' or give a list of states")
         if len(labels) < 2:
             raise StateError("basis='coupled' needs at least two labels")
         # a direct sum couples each choice of j (first label outermost, j in the order given)
@@ -405,8 +409,9 @@ def hamiltonian_matrix(op, js, basis="uncoupled", *, reduced=None, convention="e
     comps = [components(s, name=f"basis[{i}]") for i, s in enumerate(states)]
     for i, comp in enumerate(comps):
         for b in comp:
-            if sorted(_factor_map(b)) != sorted(labels):
-                raise StateError(f"basis[{i}]={states[i]} must carry the labels {sorted(labels)}")
+            if sorted(_factor_map(b)) + sorted(_mode_map(b)) != sorted(spaces) + sorted(occupations):
+                raise StateError(f"basis[{i}]={states[i]} must carry the labels {sorted(spaces)}"
+                                 + (f" and the modes {sorted(occupations)}" if occupations else ""))
     index = {k: i for i, k in enumerate(unc.states)}
     cols = []
     for i, comp in enumerate(comps):
@@ -422,7 +427,7 @@ def hamiltonian_matrix(op, js, basis="uncoupled", *, reduced=None, convention="e
     full = to_matrix(op, given, reduced=reduced, convention=convention)
     entries = {(r, c): full[r, c] for r in range(full.rows) for c in range(full.cols) if full[r, c] != 0}
     mat = _sandwich(cols, entries, cols, len(unc))
-    target = Basis(states, tuple(spaces))
+    target = Basis(states, tuple(spaces), modes=tuple(occupations))
     return HamiltonianMatrix(mat, target, *_find_blocks(mat, target))
 
 
@@ -480,6 +485,13 @@ def _candidates(basis):
     ms = [qn.get("M") for qn in qns]
     if all(m is not None for m in ms):
         out.append(("M", ms))
+    if basis.modes:
+        ns = [qn.get("N") for qn in qns]
+        if all(x is not None for x in ns):
+            out.append(("N", ns))
+            if all(m is not None for m in ms):
+                # excitation number: a spin flip paid by one quantum (J+ a + J- a+) keeps M + N
+                out.append(("M+N", [m + x for m, x in zip(ms, ns)]))
     fs = [qn.get("F") for qn in qns]
     if all(f is not None for f in fs) and all(isinstance(s, CoupledKet) for s in basis.states):
         out.append(("F", fs))
@@ -509,7 +521,7 @@ def _find_blocks(mat, basis):
             groups.setdefault(keys[i] + (values[i],), []).append(i)
         if _blocks_by(groups, nonzero):
             refined = len(groups) > len(set(keys))
-            if name != "parity" or refined:     # parity is reported only when it splits something new
+            if name not in ("parity", "M+N") or refined:     # reported only when they split something new
                 conserved.append(name)
                 keys = [keys[i] + (values[i],) for i in range(n)]
     groups = {}

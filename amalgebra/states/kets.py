@@ -149,11 +149,13 @@ class _DualState(NotationHooks):
 
     def __mul__(self, other):
         _check_product(self, other)
-        return super().__mul__(other)
+        joined = _join_states(self, other)
+        return super().__mul__(other) if joined is None else joined
 
     def __rmul__(self, other):
         _check_product(other, self)
-        return super().__rmul__(other)
+        joined = _join_states(other, self)
+        return super().__rmul__(other) if joined is None else joined
 
     def dual(self):
         """The dual state (ket to bra, bra to ket) with the same quantum numbers."""
@@ -251,6 +253,34 @@ def _check_product(left, right):
             raise StateError(f"bra={bra_} and ket={ket_} must carry the same labels, got "
                              f"{_labels(bra_)} and {_labels(ket_)}: a bra of one space times a ket of "
                              f"another is not an inner product")
+
+
+def _join_states(left, right):
+    """``|a>_J * |n>_b`` as the product ket (bras likewise), a coefficient kept in front; else None.
+
+    Only products of basis states (|j m>, product or Fock) of one side are joined; anything else
+    (a bra times a ket, an operator, a combination) is left to SymPy.
+    """
+    if not isinstance(left, Basic) or not isinstance(right, Basic):
+        return None
+    coeff = S.One
+    if isinstance(left, Mul):
+        c, nc = left.args_cnc()
+        if len(nc) != 1:
+            return None
+        coeff, left = Mul(*c), nc[0]
+    sides = {_side(left), _side(right)}
+    if len(sides) != 1 or None in sides or not _is_factor(left) or not _is_factor(right):
+        return None
+    if set(_labels(left)) & set(_labels(right)):
+        return None     # not a product state (components refuses it with the reason)
+    product = (ProductKet if sides == {"ket"} else ProductBra)(left, right)
+    return product if coeff is S.One else coeff * product
+
+
+def _is_factor(state):
+    """A |j m> state, a product of them or a Fock state: what a product state is made of."""
+    return isinstance(state, (_StateMixin, _ProductMixin)) or state.func in _MODE_STATES.values()
 
 
 class _StateMixin(_DualState):
@@ -545,9 +575,18 @@ def _walk(expr, coeff, parts, kinds, name):
             _walk(arg, coeff, parts, kinds, name)
     elif isinstance(expr, Mul):
         c, nc = expr.args_cnc()
-        if len(nc) > 1 and all(isinstance(f, kinds) for f in nc) and (Ket in kinds or Bra in kinds):
-            # |a>_J |n>_b written as a product: the product state over distinct spaces
-            nc = [(ProductKet if Ket in kinds else ProductBra)(*nc)]
+        expand_name = "_as_product_kets" if Ket in kinds else "_as_product_bras" if Bra in kinds else None
+        if len(nc) > 1 and expand_name and all(isinstance(f, kinds) or hasattr(f, expand_name) for f in nc):
+            # |a>_J |n>_b (or a coupled ket times a Fock ket) written as a product: the product state over
+            # distinct spaces, a coupled factor through its product expansion
+            product_class = ProductKet if Ket in kinds else ProductBra
+            acc = {(): coeff * Mul(*c)}
+            for f in nc:
+                expansion = getattr(f, expand_name)() if hasattr(f, expand_name) else {f: S.One}
+                acc = {key + (b,): v * cb for key, v in acc.items() for b, cb in expansion.items()}
+            for key, v in acc.items():
+                parts.setdefault(product_class(*key), []).append(v)
+            return
         if len(nc) != 1:
             raise StateError(f"{name}={expr} must be a linear combination of "
                              f"{' or '.join(k.__name__ for k in kinds)} objects")

@@ -16,7 +16,7 @@ import pytest
 import scipy.sparse
 from hypothesis import given, settings
 from hypothesis import strategies as st
-from sympy import Add, I, Matrix, Mul, Rational, S, expand, sqrt, symbols, zeros
+from sympy import Add, I, Matrix, Mul, Rational, S, expand, kronecker_product, sqrt, symbols, zeros
 
 from amalgebra.algebra import AngularMomentum
 from amalgebra.bosons import boson_modes
@@ -364,8 +364,20 @@ def test_errors():
     with pytest.raises(OperatorError, match="not a known operator"):
         to_matrix(T[0] * Symbol("X", commutative=False), {"L": [0, 1]})
     (B,) = boson_modes("B")
-    with pytest.raises(OperatorError, match="must be an angular momentum"):
-        to_matrix(T[0] * B.create, {"L": [0, 1], "B": 1})
+    with pytest.raises(OperatorError, match="mode='B'.*occupation cutoff"):
+        to_matrix(T[0] * B.create, {"L": [0, 1]})
+    with pytest.raises(OperatorError, match="tensor under label='B'"):
+        to_matrix(SphericalTensor("W", 1, "B")[0] * B.create, {"B": 1})
+
+
+def test_tensor_times_boson_is_the_kronecker_product():
+    # common practice, no source: operators of different spaces act on different Kronecker factors
+    # (angular momenta outermost, the mode last); a^dagger on n = 0, 1 is [[0, 0], [1, 0]] (cut at n = 1)
+    (B,) = boson_modes("B")
+    T = SphericalTensor("T", 1, "L")
+    space = {"L": [0, 1], "B": 1}
+    expected = kronecker_product(to_matrix(T[0], {"L": [0, 1]}), Matrix([[0, 0], [1, 0]]))
+    assert to_matrix(T[0] * B.create, space) == expected != zeros(8, 8)
 
 
 def test_symbolic_reduced_stay_visible():
