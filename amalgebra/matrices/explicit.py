@@ -279,6 +279,8 @@ def to_matrix(expr, j, kind="exact", subs=None, reduced=None, convention="edmond
     _check_size(spaces, kind, occupations)
     table = check_reduced(reduced)
     expr = _check_expr(expr)
+    if subs is not None and not isinstance(subs, dict):
+        raise NotNumericError(f"subs={subs!r} must be a dict symbol -> value (or None)")
     if kind == "exact" or occupations:
         # boson modes: the float kinds are the exact P O P in numbers (one route, no float ladder of its own)
         matrix = _exact(expr, spaces, subs, table, convention, occupations)

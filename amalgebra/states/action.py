@@ -105,6 +105,8 @@ def _basis_values(basis):
     """``(labels, modes, values)`` of a basis ket or bra: its ``|j m>`` labels, its boson modes, and the
     engine's values, ``(j, m)`` per label then ``(0, n)`` per mode (the order of ``slots``)."""
     fm, nm = _factor_map(basis), _mode_map(basis)
+    if not nm:      # |j m> factors only: already in label order (product kets sort their factors)
+        return tuple(fm), (), tuple(fm.values())
     names, where = slots(fm, nm)
     values = tuple(fm[name] if i not in where else (S.Zero, nm[name]) for i, name in enumerate(names))
     return tuple(fm), tuple(nm), values
