@@ -167,6 +167,33 @@ def to_matrix(expr, j, kind="exact", subs=None, reduced=None, convention="edmond
     of different labels act on different factors of the product space, so
     their matrices commute.
 
+    Boson modes (:class:`~amalgebra.bosons.BosonMode`) of ``expr`` take an
+    occupation cutoff in ``j``: ``{"S": "1/2", "a": 4}`` is the spin times
+    :math:`n_a = 0, \dots, 4`; a ``range`` gives the occupations explicitly and
+    marks a mode that ``expr`` does not act on (a plain number there would be
+    read as a j).  The modes follow the angular momenta in the basis (label
+    order, the first outermost, ``n`` ascending) and the matrix is
+    :math:`P\,O\,P` for the projector :math:`P` on the kept occupations: the
+    operator acts exactly on each basis state and the image is cut, so
+    ``a*a.create`` gives ``N + 1`` up to the top occupation (not the product of
+    two cut ladder matrices).  The float kinds are converted from the exact
+    matrix there.
+
+    >>> from amalgebra.algebra import AngularMomentum
+    >>> from amalgebra.bosons import BosonMode
+    >>> spin, a = AngularMomentum("S"), BosonMode("a")
+    >>> to_matrix(spin.plus * a.annihilate + spin.minus * a.create, {"S": "1/2", "a": 1})   # |up 0>, |up 1>, |down 0>, |down 1>
+    Matrix([
+    [0, 0, 0, 1],
+    [0, 0, 0, 0],
+    [0, 0, 0, 0],
+    [1, 0, 0, 0]])
+    >>> to_matrix(a.annihilate * a.create, {"a": 2})
+    Matrix([
+    [1, 0, 0],
+    [0, 2, 0],
+    [0, 0, 3]])
+
     Reduced elements: by default the family's own ``reduced(j', j)`` (a
     symbol :math:`\langle j'\|T^k\|j\rangle` for ``kind="abstract"``, the
     known values for ``"unit"`` and ``"racah"``; the Racah tensor
@@ -221,8 +248,9 @@ def to_matrix(expr, j, kind="exact", subs=None, reduced=None, convention="edmond
         Operator polynomial in angular-momentum, tensor and vector components.
     j : dict
         label -> j (int, Rational, ``"3/2"``, ...) or a list/tuple of distinct
-        j values (a direct sum), validated by :mod:`amalgebra.qnumbers`; must
-        cover every label of ``expr``.
+        j values (a direct sum), validated by :mod:`amalgebra.qnumbers`; mode ->
+        occupation cutoff ``n_max`` or a ``range`` of occupations; must cover
+        every label and mode of ``expr``.
     kind : {"exact", "float", "sparse"}
     subs : dict, optional
         Values for free symbols of the coefficients and for symbolic reduced

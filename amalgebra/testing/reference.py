@@ -27,6 +27,7 @@ from math import factorial, sqrt
 import numpy as np
 
 from ..algebra.operators import AngularMomentumComponent
+from ..bosons.operators import BosonOperator
 
 __all__ = ["component_matrices", "evaluate", "threej_float", "direct_sum_states", "space_states",
            "evaluate_on_space"]
@@ -128,8 +129,16 @@ def space_states(space):
     return labels, states
 
 
-def evaluate_on_space(expr, space, reduced=None, convention="edmonds"):
+def evaluate_on_space(expr, space, reduced=None, convention="edmonds", modes=None, extra=8):
     """Matrix of ``expr`` on ``space`` = {label: [j values]} by products of textbook atom matrices.
+
+    ``modes`` = {mode: n_max} adds truncated Fock spaces after the angular
+    momenta (sorted, the first outermost, ``n`` ascending): boson atoms
+    (:class:`~amalgebra.bosons.BosonOperator`: annihilate, create, number) are
+    ``a = sum sqrt(n) |n-1><n|`` on the larger space ``n <= n_max + extra``, the
+    products are taken there and only the result is cut to ``n <= n_max``, so
+    the matrix is ``P O P`` whenever no word of ``expr`` creates more than
+    ``extra`` quanta (Sakurai, *Modern Quantum Mechanics*, eqs. (2.3.16)-(2.3.17)).
 
     Angular-momentum atoms from the ladder formula above; a tensor component
     ``T^k_q`` (duck-typed: ``.tensor.rank``, ``.tensor.label``, ``.q``) and a
@@ -140,10 +149,27 @@ def evaluate_on_space(expr, space, reduced=None, convention="edmonds"):
     callable ``R(j', j)`` of floats (default 1 for every pair).  Products are products of
     matrices on the space (the truncation ``P T P``).
     """
-    labels, states = space_states(space)
+    labels, states = space_states(space) if space else ([], [()])
+    bosons = sorted(modes or {})
+    for mode in bosons:
+        states = [s + ((0.0, float(k)),) for s in states for k in range(int(modes[mode]) + extra + 1)]
     n = len(states)
     index = {s: i for i, s in enumerate(states)}
     reduced = reduced or {}
+
+    def boson(label, kind):
+        i = len(labels) + bosons.index(label)
+        out = np.zeros((n, n), dtype=complex)
+        for c, s in enumerate(states):
+            occ = s[i][1]
+            if kind == "number":
+                out[c, c] = occ
+                continue
+            step = -1.0 if kind == "annihilate" else 1.0
+            t = s[:i] + ((0.0, occ + step),) + s[i + 1:]
+            if t in index:
+                out[index[t], c] = sqrt(occ if step < 0 else occ + 1)
+        return out
 
     def am(label, comp):
         i = labels.index(label)
@@ -188,6 +214,8 @@ def evaluate_on_space(expr, space, reduced=None, convention="edmonds"):
     def walk(node):
         if isinstance(node, AngularMomentumComponent):
             return am(node.label, node.component)
+        if isinstance(node, BosonOperator):
+            return boson(node.args[0].name, node.kind)
         if hasattr(node, "tensor") and hasattr(node, "q"):
             fam = node.tensor
             red = reduced.get(fam, lambda jp, j: 1.0)
@@ -203,7 +231,12 @@ def evaluate_on_space(expr, space, reduced=None, convention="edmonds"):
             return 1j * (sph[1] + sph[-1]) / sqrt(2)
         return _fold(node, walk, n)
 
-    return walk(expr)
+    out = walk(expr)
+    if bosons:
+        keep = [i for i, s in enumerate(states)
+                if all(s[len(labels) + k][1] <= modes[mode] for k, mode in enumerate(bosons))]
+        out = out[np.ix_(keep, keep)]
+    return out
 
 
 def _fold(node, walk, size):

@@ -288,3 +288,34 @@ def test_subs_must_be_a_dict():
     for kind in ("exact", "float"):
         with pytest.raises(NotNumericError, match="subs=3 must be a dict"):
             to_matrix(J.z, {"J": 1}, kind=kind, subs=3)
+
+
+def _random_word_sum(rng, atoms, words=4, length=3):
+    terms = []
+    for _ in range(words):
+        factors = [atoms[i] for i in rng.integers(0, len(atoms), size=int(rng.integers(1, length + 1)))]
+        coeff = Rational(int(rng.integers(-3, 4)), int(rng.integers(1, 4))) + I * int(rng.integers(-1, 2))
+        word = S.One
+        for f in factors:
+            word = word * f
+        terms.append(coeff * word)
+    return sum(terms, S.Zero)
+
+
+@pytest.mark.parametrize("seed", range(8))
+def test_random_words_across_families_match_the_testing_oracle(seed):
+    # amalgebra.testing.reference builds every atom from textbook formulas (no kernel) and multiplies
+    # matrices on a larger Fock space before cutting: angular momenta x tensors x vectors x bosons
+    from amalgebra.tensors import SphericalTensor, VectorOperator
+    from amalgebra.testing.reference import evaluate_on_space
+
+    T, r = SphericalTensor("T", 1, "L"), VectorOperator("r", "L")
+    atoms = [L.plus, L.z, Sp.minus, Sp.x, T[0], T[-1], r.x, a.create, a.annihilate, a.number, b.create]
+    op = _random_word_sum(np.random.default_rng(seed), atoms)
+    space = {"L": [0, 1], "S": "1/2", "a": range(3), "b": range(2)}     # ranges: modes even where op lacks one
+    expected = evaluate_on_space(op, {"L": [0, 1], "S": [0.5]}, modes={"a": 2, "b": 1})
+    ones = {T: lambda jp, j: 1, r: lambda jp, j: 1}            # the oracle's default reduced elements
+    assert np.allclose(to_matrix(op, space, kind="float", reduced=ones), expected, atol=1e-11)
+    exact = to_matrix(op, space, reduced=ones)
+    assert np.allclose(np.array(exact.evalf(), dtype=complex), expected, atol=1e-11)
+    assert np.abs(expected).max() > 0
