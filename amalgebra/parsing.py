@@ -61,6 +61,7 @@ noncommutative order and SymPy's automatic evaluation are reproduced faithfully.
   - ``|j, m>_J``, ``<j, m|_J``: ket and bra of label ``J``; ``|1, 0>_L|1/2, 1/2>_S``: a
     product ket (bras likewise); ``|(1_L 1/2_S)3/2, 1/2>``: a coupled ket
     (``|((1_L 1/2_S)3/2 1_I)5/2, 1/2>`` for three momenta); ``|2, 1>_(a,b)``: a Fock ket;
+    ``|1, 0>_S|2>_(a)``: a spin-boson product ket (the Fock factor last);
   - ``|(1_a 1/2_b)3/2_J, 1/2>``, ``|((1_a 1_b)2_j, (1_c 1_d)2_k)0_J, 0>``: the ket of a coupling
     tree (:class:`~amalgebra.states.tree_kets.TreeKet`; bras likewise): every momentum, the
     intermediate and total ones too, with its name, which is what tells it from a coupled
@@ -417,8 +418,8 @@ _GRAMMAR = r"""
     | NAME "." NAME     -> component
     | NAME "[" NAME ("," NAME)* "]" "." NAME -> vector_component
     | "(" sum ")"
-    | ket+              -> kets
-    | bra+              -> bras
+    | ket+ fock_ket?    -> kets
+    | bra+ fock_bra?    -> bras
     | "<" sum "," sum ";" sum "," sum "|" sum "," sum ">" -> cg_bracket
     | "<" sum DBAR NAME POW "(" sum ")" DBAR sum (">" | KETEND) -> reduced
     | THREEJ sum "," sum "," sum ";" sum "," sum "," sum ")" -> threej
@@ -426,12 +427,14 @@ _GRAMMAR = r"""
     | NINEJ sum "," sum "," sum ";" sum "," sum "," sum ";" sum "," sum "," sum "}" -> ninej
     | "|" "(" node COMMA? node ")" value "," sum ">" -> coupled_ket
     | "<" "(" node COMMA? node ")" value "," sum "|" -> coupled_bra
-    | "|" sum ("," sum)* FOCKKET NAME ("," NAME)* ")" -> fock_ket
-    | "<" sum ("," sum)* FOCKBRA NAME ("," NAME)* ")" -> fock_bra
+    | fock_ket
+    | fock_bra
     | TREE ("[" assignment ("," assignment)* "]")? -> tree
     | "[" power NAME power "]" POW "(" sum ")" -> coupled_tensor
 assignment: NAME "=" sum
 ket: "|" sum "," sum KETEND
+fock_ket: "|" sum ("," sum)* FOCKKET NAME ("," NAME)* ")"
+fock_bra: "<" sum ("," sum)* FOCKBRA NAME ("," NAME)* ")"
 bra: "<" sum "," sum BRAEND
 ?node: part
     | "(" node COMMA? node ")" value -> node

@@ -319,3 +319,15 @@ def test_random_words_across_families_match_the_testing_oracle(seed):
     exact = to_matrix(op, space, reduced=ones)
     assert np.allclose(np.array(exact.evalf(), dtype=complex), expected, atol=1e-11)
     assert np.abs(expected).max() > 0
+
+
+def test_spin_boson_states_read_back_from_text():
+    # the str of every object reads back (tests/test_parsing.py); product kets with a Fock factor too
+    from amalgebra import parse
+    from amalgebra.parsing import to_text
+
+    k = ket(1, 0, "S") * fock_ket(0, 1, modes=("b", "c"))
+    for state in (k, adjoint(k), 2 * k + ket(1, 1, "S") * fock_ket(1, 1, modes=("b", "c")),
+                  apply(Sp.minus * b.create, k)):
+        assert parse(str(state)) == state
+        assert parse(to_text(state)) == state
