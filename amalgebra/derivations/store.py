@@ -704,15 +704,19 @@ def _basis_of(states):
     """The :class:`~amalgebra.states.basis.Basis` of stored states: labels (and ``(j, m)``
     per label for product kets) read off the kets themselves."""
     from ..states.basis import Basis
-    from ..states.kets import _factor_map
+    from ..states.kets import _factor_map, _mode_map
 
     try:
         maps = [_factor_map(state) for state in states]
-    except (AttributeError, TypeError, ValueError):
+        occupations = [_mode_map(state) for state in states]
+    except (AttributeError, TypeError, ValueError, IndexError):
         maps = None
-    if maps and all(list(m) == list(maps[0]) for m in maps):
-        labels = tuple(maps[0])
-        return Basis(states, labels, [tuple(m[label] for label in labels) for m in maps])
+    if maps and all(list(m) == list(maps[0]) for m in maps) \
+            and all(list(n) == list(occupations[0]) for n in occupations):
+        labels, modes = tuple(maps[0]), tuple(occupations[0])
+        values = [tuple(m[label] for label in labels) + tuple(n[mode] for mode in modes)
+                  for m, n in zip(maps, occupations)]
+        return Basis(states, labels, values, modes)
     labels = getattr(states[0], "labels", ()) if states else ()
     if not all(getattr(state, "labels", ()) == labels for state in states):
         labels = ()

@@ -146,3 +146,36 @@ def test_refuses_a_non_square_operator_matrix():
     bad = OperatorMatrix(Matrix([[1, 0, 0], [0, 1, 0]]), hm.basis)
     with pytest.raises(StoredResultError, match="square"):
         encode_value(bad)
+
+
+SPIN_BOSON = '''
+from sympy import symbols
+from amalgebra.algebra import AngularMomentum
+from amalgebra.bosons import BosonMode
+from amalgebra.derivations import derivation
+from amalgebra.states.hamiltonian import hamiltonian_matrix
+
+S, a = AngularMomentum("S"), BosonMode("a")
+w, g = symbols("w g")
+
+
+@derivation
+def cavity(d):
+    hm = hamiltonian_matrix(w*a.number + g*(S.plus*a.annihilate + S.minus*a.create), {"S": 1, "a": 1})
+    d.result("H", hm)
+'''
+
+
+def test_a_spin_boson_matrix_is_stored_with_its_modes(make_folder):
+    from amalgebra.bosons import BosonMode, fock_ket
+
+    folder = make_folder({"deriv_cavity.py": SPIN_BOSON})
+    assert record_folder(folder).exit_code == EXIT_OK
+    value = load_results(folder / "deriv_cavity.results.toml")["cavity"]["H"].value
+    S, a = AngularMomentum("S"), BosonMode("a")
+    w, g = symbols("w g")
+    fresh = hamiltonian_matrix(w * a.number + g * (S.plus * a.annihilate + S.minus * a.create), {"S": 1, "a": 1})
+    assert value.matrix == fresh.matrix and value.basis == fresh.basis
+    assert value.basis.modes == ("a",) and value.basis[1] == ket(1, 1, "S") * fock_ket(1, modes="a")
+    assert value.basis.select(N=1) == (1, 3, 5)
+    assert run_folder(folder).exit_code == EXIT_OK
