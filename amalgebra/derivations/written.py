@@ -110,11 +110,12 @@ def _evaluable_types():
 
 
 def _state_types():
+    from amalgebra.bosons.fock import FockBra, FockKet
     from amalgebra.states.coupled import CoupledBra, CoupledKet
     from amalgebra.states.kets import Bra, Ket, ProductBra, ProductKet
     from amalgebra.states.tree_kets import TreeBra, TreeKet
 
-    return (Bra, ProductBra, CoupledBra, TreeBra), (Ket, ProductKet, CoupledKet, TreeKet)
+    return (Bra, ProductBra, CoupledBra, TreeBra, FockBra), (Ket, ProductKet, CoupledKet, TreeKet, FockKet)
 
 
 def _sandwich_value(expr):
