@@ -91,7 +91,8 @@ def dressed_doublets(d):
                (lam - dressed(photons, 1))*(lam - dressed(photons, -1)),
                f"the doublet with {photons} photon(s) and the ion up")
     ground = hm.blocks[-1].matrix[0, 0]
-    d.step("ground", ground, -w0/2, "$|\\downarrow, 0\\rangle$: no photon, the ion down")
+    d.step("ground", written(r"E_{\downarrow, 0}", ground), -w0/2,
+           "the last $1\\times1$ block, $|\\downarrow, 0\\rangle$: no photon, the ion down")
     splitting = (dressed(0, 1) - dressed(0, -1)).subs(w0, w)
     d.step("vacuum_rabi", written(r"E_{0+} - E_{0-}\big|_{w_0 = w}", splitting), 2*g,
            "the vacuum Rabi splitting at resonance")
