@@ -54,8 +54,8 @@ import sys
 import threading
 import warnings
 from itertools import accumulate, compress
-from math import gcd, isqrt, prod
-from operator import eq
+from math import comb, gcd, isqrt, prod
+from operator import add, eq, sub
 from operator import pow as _pow  # a little faster than the builtin in map()
 
 __all__ = [
@@ -609,82 +609,127 @@ def ninej_kernel(a, b, c, d, e, f, g, h, i):
 
 
 def ninej_kernel_python(a, b, c, d, e, f, g, h, i):
-    """The pure-Python :func:`ninej_kernel` (the reference for the compiled kernel).
+    """The pure-Python :func:`ninej_kernel` (identical triples to the compiled kernel).
 
-    The common denominator is found on packed vectors: the digit-wise minimum of
-    two biased vectors (each digit ``e + 2^30`` below ``2^31``) is one subtraction
-    with a guard bit per digit and two masks, so no term is ever unpacked.
+    Edmonds (6.4.3) with the three 6j written with ``x`` first,
+    ``{x f b; c a i} {x b f; e d h} {x a i; g h d}`` (the same symbols by their
+    column symmetries).  Each Racah sum ``S(x)`` of ``{x p q; l r s}`` obeys the
+    three-term recurrence in ``x`` (doubled values, ``J(y) = y (y + 2)``)
+
+    .. math:: x G_+(x) S(x+2) + 2 (x+1) [J_x (c_4 - J_x) + c_3] S(x) + (x+2) G_-(x) S(x-2) = 0,
+
+    :math:`G_+ = ((x+2)^2 - (p-q)^2)((x+2)^2 - (r-s)^2)`,
+    :math:`G_- = ((p+q+2)^2 - x^2)((r+s+2)^2 - x^2)`,
+    :math:`c_4 = J_p + J_q - 2 J_l + J_r + J_s`, :math:`c_3 = (J_r - J_s)(J_p - J_q)`
+    (Schulten and Gordon's recurrence for the 6j, J. Math. Phys. 16, 1961 (1975), with the
+    square roots of its coefficients cancelled against the ``x``-dependent triangle
+    coefficients).  It runs on the integers ``Q(x) = S(x) K / (l_3 + 1)!`` with the constant
+    ``K = ((l+s-p)/2)! ((p+l-s)/2)! ((p+s-l)/2)!`` and ``l_3 = (l+p+s)/2``, integers because
+    ``Q`` is a signed sum of products of four binomials; ``x G_+`` never vanishes inside the
+    9j range, so every step is one exact division.  Two Horner sums start each recurrence.
+
+    The ``x``-dependent triangle coefficients ``Phi(x) = Delta(a i x) Delta(b f x) Delta(d h x)``
+    are scaled by their digit-wise minimum over the range (on packed vectors: bit 31 of
+    ``low + guard - vector`` is set where ``low >= vector``), so ``Psi(x) = Phi(x) / min``
+    is a small integer, updated by ``Delta(x+2) / Delta(x) = ((x+2)^2 - (p-q)^2) /
+    ((p+q+2)^2 - (x+2)^2)``.  The sum of ``(x+1) Q_1 Q_2 Q_3 Psi(x)`` times the constants and
+    the common root gives the triple.
     """
     lo = max(abs(a - i), abs(b - f), abs(d - h))
     hi = min(a + i, b + f, d + h)
     if lo > hi:
         return 0, 1, 1
     t = _tables
-    top = _ninej_top(a, b, c, d, e, f, g, h, i, hi)
+    top = max(a + i + hi, b + f + hi, d + h + hi, a + b + c, d + e + f, g + h + i,
+              a + d + g, b + e + h, c + f + i) // 2 + 1
     fp = _packs(top, t)
     length = t.pi[top]
     guard, bias, full = _min_masks(length)
-    # x-independent parts of the three 6j: {a b c; f i x}, {d e f; b x h}, {g h i; x a d}
-    r1a, r1d, r1e = (a + b + c) >> 1, (f + i + c) >> 1, (a + b + f + i) >> 1
-    r2a, r2b, r2e = (d + e + f) >> 1, (b + e + h) >> 1, (f + d + h + b) >> 1
-    r3a, r3b, r3e = (g + h + i) >> 1, (g + a + d) >> 1, (h + i + a + d) >> 1
-    outer_x = []
-    low = None
-    for x in range(lo, hi + 1, 2):
-        p1, s1 = _racah(r1a, (a + i + x) >> 1, (f + b + x) >> 1, r1d,
-                        r1e, (b + c + i + x) >> 1, (c + a + x + f) >> 1, fp)
-        if p1 == 0:
-            continue
-        p2, s2 = _racah(r2a, (d + x + h) >> 1, r2b, (b + x + f) >> 1,
-                        (d + e + b + x) >> 1, (e + f + x + h) >> 1, r2e, fp)
-        if p2 == 0:
-            continue
-        p3, s3 = _racah(r3a, r3b, (x + h + d) >> 1, (x + a + i) >> 1,
-                        (g + h + x + a) >> 1, r3e, (i + g + d + x) >> 1, fp)
-        if p3 == 0:
-            continue
-        coeff = (x + 1) * p1 * p2 * p3
-        if x & 1:
-            coeff = -coeff
-        vector = (s1 + s2 + s3 + _delta_pack(fp, a, i, x) + _delta_pack(fp, b, f, x)
-                  + _delta_pack(fp, d, h, x) + bias)
-        outer_x.append((coeff, vector))
-        if low is None:
-            low = vector
-        else:
-            # digit-wise min: bit 31 of (low + guard - vector) is set where low >= vector
-            mask = (((low + guard - vector) & guard) >> 31) * _DIGIT
-            low = (vector & mask) | (low & (full ^ mask))
-    if not outer_x:
-        return 0, 1, 1
-    primes = t.primes
-    size = 4 * length
-    total = 0
-    for coeff, vector in outer_x:
-        diff = vector - low
-        if diff:
-            ups = memoryview(diff.to_bytes(size, _NATIVE)).cast(_UINT32).tolist()
-            coeff *= prod(map(_pow, compress(primes, ups), filter(None, ups)))
-        total += coeff
+    m = (hi - lo) >> 1
+    # packed vectors of Phi(x) for x = lo, lo + 2, ..., hi, and their digit-wise minimum
+    phis = None
+    for p, q in ((a, i), (b, f), (d, h)):
+        s, u, v, w = (p + q - hi) >> 1, (p - q + lo) >> 1, (q - p + lo) >> 1, ((p + q + lo) >> 1) + 1
+        part = map(sub, map(add, _pack_range(fp, s, s + m + 1)[::-1], _pack_range(fp, u, u + m + 1)),
+                   map(sub, _pack_range(fp, w, w + m + 1), _pack_range(fp, v, v + m + 1)))
+        phis = list(part) if phis is None else list(map(add, phis, part))
+    low = phis[0] + bias
+    for vector in phis[1:]:
+        vector += bias
+        mask = (((low + guard - vector) & guard) >> 31) * _DIGIT
+        low = (vector & mask) | (low & (full ^ mask))
+    low -= bias
+    psi = _pack_to_int(phis[0] - low, length, t)
+    # the constants K / (l3 + 1)! of the three 6j {x p q; l r s}
+    constants = 0
+    for p, q, l, r, s in ((f, b, c, a, i), (b, f, e, d, h), (a, i, g, h, d)):
+        constants += (fp[(l + s - p) >> 1] + fp[(p + l - s) >> 1] + fp[(p + s - l) >> 1]
+                      - fp[((l + p + s) >> 1) + 1])
+    q1, q2, q3 = _scaled_racah(lo, f, b, c, a, i), _scaled_racah(lo, b, f, e, d, h), _scaled_racah(lo, a, i, g, h, d)
+    total = (lo + 1) * psi * q1 * q2 * q3
+    if m:
+        x = lo + 2
+        kbf, kai, kdh = (b - f) ** 2, (a - i) ** 2, (d - h) ** 2
+        mbf, mai, mdh = (b + f + 2) ** 2, (a + i + 2) ** 2, (d + h + 2) ** 2
+        x2 = x * x
+        wbf, wai, wdh = mbf - x2, mai - x2, mdh - x2
+        psi = psi * ((x2 - kbf) * (x2 - kai) * (x2 - kdh)) // (wbf * wai * wdh)
+        r1, r2, r3 = _scaled_racah(x, f, b, c, a, i), _scaled_racah(x, b, f, e, d, h), _scaled_racah(x, a, i, g, h, d)
+        total += (x + 1) * psi * r1 * r2 * r3
+        jf, jb, jc, ja, ji, je, jd, jh, jg = (f * (f + 2), b * (b + 2), c * (c + 2), a * (a + 2), i * (i + 2),
+                                              e * (e + 2), d * (d + 2), h * (h + 2), g * (g + 2))
+        c41, c31 = jf + jb - 2 * jc + ja + ji, (ja - ji) * (jf - jb)
+        c42, c32 = jb + jf - 2 * je + jd + jh, (jd - jh) * (jb - jf)
+        c43, c33 = ja + ji - 2 * jg + jh + jd, (jh - jd) * (ja - ji)
+        for x in range(x, hi, 2):
+            y = x + 2
+            y2 = y * y
+            ubf, uai, udh = y2 - kbf, y2 - kai, y2 - kdh
+            jx = x * y
+            z = x + y
+            q1, r1 = r1, -(z * (jx * (c41 - jx) + c31) * r1 + y * wbf * wai * q1) // (x * ubf * uai)
+            q2, r2 = r2, -(z * (jx * (c42 - jx) + c32) * r2 + y * wbf * wdh * q2) // (x * ubf * udh)
+            q3, r3 = r3, -(z * (jx * (c43 - jx) + c33) * r3 + y * wai * wdh * q3) // (x * uai * udh)
+            wbf, wai, wdh = mbf - y2, mai - y2, mdh - y2
+            psi = psi * (ubf * uai * udh) // (wbf * wai * wdh)
+            total += (y + 1) * psi * r1 * r2 * r3
     if total == 0:
         return 0, 1, 1
+    if lo & 1:
+        total = -total
     outer = (_delta_pack(fp, a, b, c) + _delta_pack(fp, d, e, f) + _delta_pack(fp, g, h, i)
              + _delta_pack(fp, a, d, g) + _delta_pack(fp, b, e, h) + _delta_pack(fp, c, f, i))
-    return _split_square(2 * (low - bias) + outer, top, total, t)
+    return _split_square(2 * (low - constants) + outer, top, total, t)
 
 
-def _racah(a1, a2, a3, a4, e1, e2, e3, fp):
-    """Racah's 6j sum from unsorted triad sums ``a1..a4`` and quadruple sums ``e1..e3``:
-    ``(P, packed)`` as :func:`sixj_racah_sum` returns it."""
+def _scaled_racah(x, p, q, l, r, s):
+    """``Q(x) = S(x) K / (l_3 + 1)!`` of the 6j ``{x p q; l r s}`` (doubled; see
+    :func:`ninej_kernel_python`): Horner on the Racah sum, then the leading term as four binomials."""
+    a1, a2, a3, a4 = (x + p + q) >> 1, (x + r + s) >> 1, (l + p + s) >> 1, (l + r + q) >> 1
+    e1, e2, e3 = (x + q + l + s) >> 1, (x + p + l + r) >> 1, (p + q + r + s) >> 1  # paired with a1, a2, a4
     t0 = max(a1, a2, a3, a4)
     t1 = min(e1, e2, e3)
     p = q = 1
     for u in range(t1, t0, -1):  # u = t + 1
         q *= (u - a1) * (u - a2) * (u - a3) * (u - a4)
         p = q - (u + 1) * (e1 + 1 - u) * (e2 + 1 - u) * (e3 + 1 - u) * p
-    packed = (fp[t0 + 1] - fp[t1 - a1] - fp[t1 - a2] - fp[t1 - a3] - fp[t1 - a4]
-              - fp[e1 - t0] - fp[e2 - t0] - fp[e3 - t0])
-    return (-p if t0 & 1 else p), packed
+    p = comb(t0 + 1, a3 + 1) * comb(e1 - a1, t0 - a1) * comb(e2 - a2, t0 - a2) * comb(e3 - a4, t0 - a4) * p // q
+    return -p if t0 & 1 else p
+
+
+def _pack_range(fp, start, stop):
+    """``[fp[n] for n in range(start, stop)]`` (a slice of the dense table)."""
+    if type(fp) is list:
+        return fp[start:stop]
+    return [fp[n] for n in range(start, stop)]
+
+
+def _pack_to_int(packed, length, t):
+    """The integer ``prod p^e`` of a packed vector with every digit ``e >= 0``."""
+    if not packed:
+        return 1
+    ups = memoryview(packed.to_bytes(4 * length, _NATIVE)).cast(_UINT32).tolist()
+    return prod(map(_pow, compress(t.primes, ups), filter(None, ups)))
 
 
 _min_masks_cache = {}
