@@ -115,32 +115,6 @@ def _dj(value, name):
     return doubled(value, name, nonnegative=True)
 
 
-def _plain_doubled(values):
-    """Doubled j's when every value is a nonnegative ``int`` or a SymPy integer or half-integer,
-    else ``None`` (the caller then takes the general, validating route).
-
-    One pass instead of :func:`_symbolic` followed by :func:`read_js`: the common call
-    with plain numbers pays for neither the symbolic check nor a call per argument.
-    """
-    out = []
-    for v in values:
-        if type(v) is int:
-            if v < 0:
-                return None
-            out.append(2 * v)
-        elif isinstance(v, Rational) and v.p >= 0:
-            q = v.q
-            if q == 2:
-                out.append(v.p)
-            elif q == 1:
-                out.append(2 * v.p)
-            else:
-                return None
-        else:
-            return None
-    return out
-
-
 def _dm(tj, value, name, jname):
     """Doubled projection ``m`` checked against doubled ``tj`` (``j - m`` integer)."""
     if type(value) is int:
@@ -280,10 +254,29 @@ _WHY = "the Racah sum has up to 2j terms of thousands of digits"
 
 
 def _sixj_key_python(*values):
-    """Pure-Python twin of the compiled ``sixj_key``: the sorted key, 0 or None."""
-    tj = _plain_doubled(values)
-    if tj is None or max(tj) > _FAST_DOUBLED:
-        return None
+    """Pure-Python twin of the compiled ``sixj_key``: the sorted key, 0 or None.
+
+    ``None`` unless every value is an ``int`` or a SymPy integer or half-integer with
+    ``0 <= 2j <= _FAST_DOUBLED`` (the caller then takes the general, validating route): the
+    common call with plain numbers pays for neither the symbolic check nor a call per argument.
+    """
+    tj = []
+    for v in values:
+        if type(v) is int:
+            t = 2 * v
+        elif isinstance(v, Rational):
+            t = v.q
+            if t == 2:
+                t = v.p
+            elif t == 1:
+                t = 2 * v.p
+            else:
+                return None
+        else:
+            return None
+        if not 0 <= t <= _FAST_DOUBLED:
+            return None
+        tj.append(t)
     return sixj_key_plain(*tj)
 
 

@@ -208,6 +208,7 @@ def clear_tables():
         _tables = _Tables()
         _masks_cache.clear()
         _bias.clear()
+        _byte_route.clear()
         if _compiled is not None:
             _compiled.clear()
 
@@ -350,19 +351,84 @@ _UINT32 = next(code for code in "IL" if memoryview(bytes(8)).cast(code).itemsize
 def _split_square(packed, limit, factor, t=None):
     """Canonical triple of ``factor * sqrt(prod p^e)`` for a packed exponent vector.
 
-    ``limit`` bounds every factorial argument that entered ``packed``.  Works
-    on all digits at once: adding ``2^31`` to each digit makes them carry-free,
-    so the low bit of each digit is the parity of ``e`` (the squarefree part is
-    the product of the primes with a set bit), and after subtracting the
-    parities and halving, bit 30 of each digit tells the sign of ``e // 2``;
-    positive and negative halves are then separated by digit masks and read
-    back as plain byte arrays.  ``factor`` may carry primes of the vector (the
-    final gcd with the denominator makes the triple canonical in any case).
+    ``limit`` bounds every factorial argument that entered ``packed``.  The common case,
+    ``|e| <= 127`` for every prime but 2, is read from one byte string: adding ``2^30`` to the
+    digit of 2 and 128 to every other digit makes the digits carry-free, one mask tells
+    whether every other digit stayed in ``[0, 256)``, and the low byte of each digit then maps
+    through three 256-entry tables (:meth:`bytes.translate`) to the parity of ``e``, to
+    ``max(e // 2, 0)`` and to ``max(-(e // 2), 0)``; the prime 2 is a shift.  Otherwise
+    :func:`_split_square_wide` runs.  ``factor`` may carry primes of the vector (the final
+    gcd with the denominator makes the triple canonical in any case).
     """
     if factor == 0:
         return 0, 1, 1
     t = t or _tables
     length = t.pi[limit]
+    if length < 2:
+        return _split_square_wide(packed, length, factor, t)
+    route = _byte_route.get(length)
+    if route is None:
+        route = _byte_route_masks(length)
+    bias, high = route
+    biased = packed + bias
+    if biased & high:
+        return _split_square_wide(packed, length, factor, t)
+    raw = biased.to_bytes(4 * length, "little")[4::4]   # e + 128 for 3, 5, 7, ...
+    odd_primes = t.primes[1:length]
+    s = prod(compress(odd_primes, raw.translate(_ODD_TABLE)))
+    n = factor
+    ups = raw.translate(_UP_TABLE)
+    if ups.strip(b"\x00"):
+        more = ups.translate(_MORE_TABLE)
+        n *= prod(compress(odd_primes, ups))
+        if more.strip(b"\x00"):
+            n *= prod(map(_pow, compress(odd_primes, more), filter(None, more)))
+    downs = raw.translate(_DOWN_TABLE)
+    den = prod(compress(odd_primes, downs))
+    more = downs.translate(_MORE_TABLE)
+    if more.strip(b"\x00"):
+        den *= prod(map(_pow, compress(odd_primes, more), filter(None, more)))
+    e2 = (biased & _DIGIT) - _HALF_DIGIT
+    if e2 & 1:
+        s <<= 1
+    e2 >>= 1
+    if e2 > 0:
+        n <<= e2
+    elif e2 < 0:
+        den <<= -e2
+    if den != 1:
+        g = gcd(factor, den)  # = gcd(n, den): the primes of ``ups`` and of ``den`` are disjoint
+        if g != 1:
+            n //= g
+            den //= g
+    return n, den, s
+
+
+_HALF_DIGIT = 1 << 30
+# byte b of an odd prime's digit is e + 128: its parity, max(e // 2, 0), max(-(e // 2), 0);
+# and for a positive exponent k, k - 1 (so that p^k = p * p^(k-1): most k are 1, and the
+# product of the plain primes needs no pow)
+_ODD_TABLE = bytes((b - 128) & 1 for b in range(256))
+_UP_TABLE = bytes(max((b - 128) >> 1, 0) for b in range(256))
+_DOWN_TABLE = bytes(max(-((b - 128) >> 1), 0) for b in range(256))
+_MORE_TABLE = bytes(max(b - 1, 0) for b in range(256))
+_byte_route = {}
+
+
+def _byte_route_masks(length):
+    """``(bias, high)`` of the byte route: 2^30 in the digit of 2 and 128 in the others; bits 8-31
+    of every digit but the first."""
+    low = int.from_bytes(b"\x01\x00\x00\x00" * length, "little")
+    route = _byte_route[length] = (128 * low - 128 + _HALF_DIGIT, (low - 1) * 0xFFFFFF00)
+    return route
+
+
+def _split_square_wide(packed, length, factor, t):
+    """:func:`_split_square` for any exponents, on all digits at once: adding ``2^31`` to each
+    digit makes them carry-free, so the low bit of each digit is the parity of ``e`` (the
+    squarefree part is the product of the primes with a set bit), and after subtracting the
+    parities and halving, bit 30 of each digit tells the sign of ``e // 2``; positive and
+    negative halves are then separated by digit masks and read back as plain byte arrays."""
     if not length:
         return factor, 1, 1
     low, bias, half = _masks(length)
@@ -565,12 +631,16 @@ def sixj_key_plain(t1, t2, t3, t4, t5, t6):
     0
     """
     s1, s2, s3, s4 = t1 + t2 + t3, t1 + t5 + t6, t4 + t2 + t6, t4 + t5 + t3
-    if ((s1 | s2 | s3 | s4) & 1 or not abs(t1 - t2) <= t3 <= t1 + t2 or not abs(t1 - t5) <= t6 <= t1 + t5
-            or not abs(t4 - t2) <= t6 <= t4 + t2 or not abs(t4 - t5) <= t3 <= t4 + t5):
+    if (s1 | s2 | s3 | s4) & 1:
         return 0
-    alpha = sorted((s1 >> 1, s2 >> 1, s3 >> 1, s4 >> 1))
-    alpha.extend(sorted(((t1 + t2 + t4 + t5) >> 1, (t2 + t3 + t5 + t6) >> 1, (t3 + t1 + t6 + t4) >> 1)))
-    return tuple(alpha)
+    key = sorted((s1 >> 1, s2 >> 1, s3 >> 1, s4 >> 1))
+    beta = sorted(((t1 + t2 + t4 + t5) >> 1, (t2 + t3 + t5 + t6) >> 1, (t3 + t1 + t6 + t4) >> 1))
+    # the twelve differences beta_j - alpha_i are the triangle excesses (j1 + j2 - j3 and the
+    # like) of the four triads, so every triangle rule holds exactly when min(beta) >= max(alpha)
+    if beta[0] < key[3]:
+        return 0
+    key += beta
+    return tuple(key)
 
 
 def _sixj_sums(t1, t2, t3, t4, t5, t6):

@@ -56,7 +56,7 @@ References
 from functools import lru_cache
 
 from . import kernels
-from .kernels import ninej_kernel, sixj_kernel_sorted, threej_kernel
+from .kernels import ninej_kernel, sixj_kernel_sorted_python, threej_kernel
 
 __all__ = [
     "CACHE_SIZE",
@@ -165,9 +165,10 @@ def _threej_canonical(key):
 
 
 def _sixj_python(key):
+    # only without the compiled module (see below), so straight to the pure-Python kernel
     if kernels._fallback_pending:
         kernels.warn_fallback_once()
-    return sixj_kernel_sorted(*key)
+    return sixj_kernel_sorted_python(*key)
 
 
 if kernels._compiled is not None:
