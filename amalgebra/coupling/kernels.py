@@ -368,25 +368,25 @@ def _split_square(packed, limit, factor, t=None):
         return _split_square_wide(packed, length, factor, t)
     route = _byte_route.get(length)
     if route is None:
-        route = _byte_route_masks(length)
-    bias, high = route
+        route = _byte_route_masks(length, t)
+    bias, high, odd_primes = route
     biased = packed + bias
     if biased & high:
         return _split_square_wide(packed, length, factor, t)
     raw = biased.to_bytes(4 * length, "little")[4::4]   # e + 128 for 3, 5, 7, ...
-    odd_primes = t.primes[1:length]
-    s = prod(compress(odd_primes, raw.translate(_ODD_TABLE)))
+    s = prod(compress(odd_primes, raw.translate(_ODD_TABLE).rstrip(b"\x00")))
     n = factor
-    ups = raw.translate(_UP_TABLE)
-    if ups.strip(b"\x00"):
-        more = ups.translate(_MORE_TABLE)
+    # trailing zero bytes trimmed first: the exponents above 1 sit on the small primes
+    ups = raw.translate(_UP_TABLE).rstrip(b"\x00")
+    if ups:
         n *= prod(compress(odd_primes, ups))
-        if more.strip(b"\x00"):
+        more = ups.translate(_MORE_TABLE).rstrip(b"\x00")
+        if more:
             n *= prod(map(_pow, compress(odd_primes, more), filter(None, more)))
-    downs = raw.translate(_DOWN_TABLE)
+    downs = raw.translate(_DOWN_TABLE).rstrip(b"\x00")
     den = prod(compress(odd_primes, downs))
-    more = downs.translate(_MORE_TABLE)
-    if more.strip(b"\x00"):
+    more = downs.translate(_MORE_TABLE).rstrip(b"\x00")
+    if more:
         den *= prod(map(_pow, compress(odd_primes, more), filter(None, more)))
     e2 = (biased & _DIGIT) - _HALF_DIGIT
     if e2 & 1:
@@ -415,11 +415,13 @@ _MORE_TABLE = bytes(max(b - 1, 0) for b in range(256))
 _byte_route = {}
 
 
-def _byte_route_masks(length):
-    """``(bias, high)`` of the byte route: 2^30 in the digit of 2 and 128 in the others; bits 8-31
-    of every digit but the first."""
+def _byte_route_masks(length, t):
+    """``(bias, high, odd_primes)`` of the byte route: 2^30 in the digit of 2 and 128 in the others;
+    bits 8-31 of every digit but the first; the odd primes among the first ``length`` (a pure
+    function of ``length``, so kept when the tables are cleared or swapped)."""
     low = int.from_bytes(b"\x01\x00\x00\x00" * length, "little")
-    route = _byte_route[length] = (128 * low - 128 + _HALF_DIGIT, (low - 1) * 0xFFFFFF00)
+    route = _byte_route[length] = (128 * low - 128 + _HALF_DIGIT, (low - 1) * 0xFFFFFF00,
+                                   tuple(t.primes[1:length]))
     return route
 
 
