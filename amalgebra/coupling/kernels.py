@@ -55,7 +55,7 @@ import threading
 import warnings
 from itertools import accumulate, compress
 from math import comb, gcd, isqrt, prod
-from operator import add, eq, sub
+from operator import add, eq, getitem, sub
 from operator import pow as _pow  # a little faster than the builtin in map()
 
 __all__ = [
@@ -382,12 +382,12 @@ def _split_square(packed, limit, factor, t=None):
         n *= prod(compress(odd_primes, ups))
         more = ups.translate(_MORE_TABLE).rstrip(b"\x00")
         if more:
-            n *= prod(map(_pow, compress(odd_primes, more), filter(None, more)))
+            n *= _power_product(more, odd_primes)
     downs = raw.translate(_DOWN_TABLE).rstrip(b"\x00")
     den = prod(compress(odd_primes, downs))
     more = downs.translate(_MORE_TABLE).rstrip(b"\x00")
     if more:
-        den *= prod(map(_pow, compress(odd_primes, more), filter(None, more)))
+        den *= _power_product(more, odd_primes)
     e2 = (biased & _DIGIT) - _HALF_DIGIT
     if e2 & 1:
         s <<= 1
@@ -413,6 +413,30 @@ _UP_TABLE = bytes(max((b - 128) >> 1, 0) for b in range(256))
 _DOWN_TABLE = bytes(max(-((b - 128) >> 1), 0) for b in range(256))
 _MORE_TABLE = bytes(max(b - 1, 0) for b in range(256))
 _byte_route = {}
+
+
+def _first_odd_primes(count):
+    found = []
+    n = 3
+    while len(found) < count:
+        if all(n % p for p in found if p * p <= n):
+            found.append(n)
+        n += 2
+    return found
+
+
+# p^k for the first 24 odd primes and 0 <= k < 64 (the byte route's halves are at most 64):
+# the exponents above 1 sit on the small primes, and a table row beats pow() there
+_POWER_ROWS = [[p ** k for k in range(64)] for p in _first_odd_primes(24)]
+
+
+def _power_product(exponents, odd_primes):
+    """``prod p^k`` over the odd primes for a byte string of exponents ``k < 64``."""
+    if len(exponents) <= 24:
+        return prod(map(getitem, _POWER_ROWS, exponents))
+    tail = exponents[24:]
+    return (prod(map(getitem, _POWER_ROWS, exponents))
+            * prod(map(_pow, compress(odd_primes[24:], tail), filter(None, tail))))
 
 
 def _byte_route_masks(length, t):
@@ -635,14 +659,19 @@ def sixj_key_plain(t1, t2, t3, t4, t5, t6):
     s1, s2, s3, s4 = t1 + t2 + t3, t1 + t5 + t6, t4 + t2 + t6, t4 + t5 + t3
     if (s1 | s2 | s3 | s4) & 1:
         return 0
-    key = sorted((s1 >> 1, s2 >> 1, s3 >> 1, s4 >> 1))
-    beta = sorted(((t1 + t2 + t4 + t5) >> 1, (t2 + t3 + t5 + t6) >> 1, (t3 + t1 + t6 + t4) >> 1))
+    alpha = sorted((s1 >> 1, s2 >> 1, s3 >> 1, s4 >> 1))
+    b1, b2, b3 = (t1 + t2 + t4 + t5) >> 1, (t2 + t3 + t5 + t6) >> 1, (t3 + t1 + t6 + t4) >> 1
+    if b1 > b2:
+        b1, b2 = b2, b1
+    if b2 > b3:
+        b2, b3 = b3, b2
+        if b1 > b2:
+            b1, b2 = b2, b1
     # the twelve differences beta_j - alpha_i are the triangle excesses (j1 + j2 - j3 and the
     # like) of the four triads, so every triangle rule holds exactly when min(beta) >= max(alpha)
-    if beta[0] < key[3]:
+    if b1 < alpha[3]:
         return 0
-    key += beta
-    return tuple(key)
+    return (*alpha, b1, b2, b3)
 
 
 def _sixj_sums(t1, t2, t3, t4, t5, t6):
