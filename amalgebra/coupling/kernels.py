@@ -33,9 +33,12 @@ at its start keeps a consistent view while other threads grow or clear them.
 Compiled kernels: when the optional extension ``amalgebra.coupling._racah6j``
 (C with GMP, built at install time when a compiler and the GMP headers are
 present) is importable, :func:`threej_kernel`, :func:`sixj_kernel_sorted` and
-:func:`ninej_kernel` run the same algorithms there for factorial arguments up
-to its table limit (4096); otherwise, and above the limit, the pure-Python
-kernels (``*_python``) run.  Both return identical triples (tested).
+:func:`ninej_kernel` run there for factorial arguments up to its table limit
+(4096); otherwise, and above the limit, the pure-Python kernels (``*_python``)
+run.  The 3j and 6j algorithms are the same on both sides; the 9j in C sums the
+three 6j afresh for every ``x``, the pure-Python 9j runs a recurrence in ``x``
+(:func:`ninej_kernel_python`).  Both return identical triples, the canonical
+form being unique (tested).
 :func:`kernel_backend` says which one is active; ``AMALGEBRA_PURE_PYTHON=1`` in
 the environment (read at import) disables the compiled kernel.  When the
 extension is missing without that request, the first evaluation warns once

@@ -7,7 +7,8 @@ Prints, one line per configuration:
   jmin <= j <= jmax), first evaluation with every cache cleared (ours, SymPy's
   and the baseline's factorial cache) before each timed pass, next to the naive
   Racah baseline ``/work/shared/bench/naive_racah.py`` run side by side (its
-  ``sympy`` and ``int`` backends), and the ratios;
+  ``sympy`` and ``int`` backends), and the ratios; then the same with every cache warm
+  (each timed pass after an untimed one that fills ours and the baselines' caches);
 * sixj of a new small symbol (every distinct canonical 6j with j <= 6, each call a cache miss);
 * 3j symbols with all j near 500 (ms each);
 * float accuracy for j up to 200: our float path and the baseline's float
@@ -61,13 +62,18 @@ def symbols(naive, kind, jmax, n, seed, jmin=0):
     raise SystemExit("naive_racah.py not found: the random symbol sets come from it")
 
 
-def time_ours(kind, syms, repeat):
+def time_ours(kind, syms, repeat, warm=False):
+    """Seconds per symbol (min, median over ``repeat`` passes) with every cache cleared first;
+    ``warm``: after an untimed pass that fills the value caches."""
     args = [[Rational(t, 2) for t in s] for s in syms]
     func = OURS[kind]
     times = []
     for _ in range(repeat):
         clear_coupling_caches()
         clear_cache()
+        if warm:
+            for a in args:
+                func(*a)
         start = _clock()
         for a in args:
             func(*a)
@@ -75,12 +81,16 @@ def time_ours(kind, syms, repeat):
     return min(times), statistics.median(times)
 
 
-def time_naive(naive, kind, backend, syms, repeat):
+def time_naive(naive, kind, backend, syms, repeat, warm=False):
+    """As :func:`time_ours` for the baseline (its factorial cache and SymPy's cache)."""
     func = naive.FUNCS[(kind, backend)]
     times = []
     for _ in range(repeat):
         naive._fact_cache.clear()
         clear_cache()
+        if warm:
+            for s in syms:
+                func(*s)
         start = _clock()
         for s in syms:
             func(*s)
@@ -88,25 +98,35 @@ def time_naive(naive, kind, backend, syms, repeat):
     return min(times), statistics.median(times)
 
 
+def _interleaved(naive, kind, syms, repeat, with_sympy, warm):
+    ours_t, int_t, sympy_t = [], [], []
+    for k in range(repeat):
+        ours_t.append(time_ours(kind, syms, 1, warm)[0])
+        int_t.append(time_naive(naive, kind, "int", syms, 1, warm)[0])
+        if with_sympy and k < max(1, repeat - 2):
+            sympy_t.append(time_naive(naive, kind, "sympy", syms, 1, warm)[0])
+    return ours_t, int_t, sympy_t
+
+
 def run_speed(naive, configs, repeat):
     print("# speed: seconds per symbol, cold caches; min (median) over passes, the passes of ours and of the")
-    print("# baseline interleaved so that both see the same machine load; ratio = naive min / ours min")
+    print("# baseline interleaved so that both see the same machine load; ratio = naive min / ours min;")
+    print("# warm (after ||): the same passes run again after an untimed pass that fills every cache")
+    print("# (ours: the value caches; the baselines: their factorial cache and SymPy's cache)")
     for kind, jmin, jmax, n, with_sympy in configs:
         syms = symbols(naive, kind, jmax, n, 12345, jmin=jmin)
-        ours_t, int_t, sympy_t = [], [], []
-        for k in range(repeat):
-            ours_t.append(time_ours(kind, syms, 1)[0])
-            int_t.append(time_naive(naive, kind, "int", syms, 1)[0])
-            if with_sympy and k < max(1, repeat - 2):
-                sympy_t.append(time_naive(naive, kind, "sympy", syms, 1)[0])
-        ours = min(ours_t)
-        line = (f"{kind} j in [{jmin}, {jmax}] n={n}: ours {ours:.3e} ({statistics.median(ours_t):.3e})"
-                f" | naive-int {min(int_t):.3e} ratio {min(int_t) / ours:.1f}x")
-        if sympy_t:
-            line += f" | naive-sympy {min(sympy_t):.3e} ratio {min(sympy_t) / ours:.0f}x"
-        else:
-            line += " | naive-sympy skipped"
-        print(line, flush=True)
+        parts = []
+        for warm in (False, True):
+            ours_t, int_t, sympy_t = _interleaved(naive, kind, syms, repeat, with_sympy, warm)
+            ours = min(ours_t)
+            line = (f"ours {ours:.3e} ({statistics.median(ours_t):.3e})"
+                    f" | naive-int {min(int_t):.3e} ratio {min(int_t) / ours:.1f}x")
+            if sympy_t:
+                line += f" | naive-sympy {min(sympy_t):.3e} ratio {min(sympy_t) / ours:.0f}x"
+            else:
+                line += " | naive-sympy skipped"
+            parts.append(line)
+        print(f"{kind} j in [{jmin}, {jmax}] n={n}: {parts[0]} || warm: {parts[1]}", flush=True)
 
 
 def small_sixj_set(jmax2=12):
