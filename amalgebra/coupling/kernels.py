@@ -717,18 +717,18 @@ def ninej_kernel_python(a, b, c, d, e, f, g, h, i):
 
     Edmonds (6.4.3) with the three 6j written with ``x`` first,
     ``{x f b; c a i} {x b f; e d h} {x a i; g h d}`` (the same symbols by their
-    column symmetries).  Each Racah sum ``S(x)`` of ``{x p q; l r s}`` obeys the
+    column symmetries).  Each Racah sum ``S(x)`` of ``{x p q; n r s}`` obeys the
     three-term recurrence in ``x`` (doubled values, ``J(y) = y (y + 2)``)
 
     .. math:: x G_+(x) S(x+2) + 2 (x+1) [J_x (c_4 - J_x) + c_3] S(x) + (x+2) G_-(x) S(x-2) = 0,
 
     :math:`G_+ = ((x+2)^2 - (p-q)^2)((x+2)^2 - (r-s)^2)`,
     :math:`G_- = ((p+q+2)^2 - x^2)((r+s+2)^2 - x^2)`,
-    :math:`c_4 = J_p + J_q - 2 J_l + J_r + J_s`, :math:`c_3 = (J_r - J_s)(J_p - J_q)`
+    :math:`c_4 = J_p + J_q - 2 J_n + J_r + J_s`, :math:`c_3 = (J_r - J_s)(J_p - J_q)`
     (Schulten and Gordon's recurrence for the 6j, J. Math. Phys. 16, 1961 (1975), with the
     square roots of its coefficients cancelled against the ``x``-dependent triangle
-    coefficients).  It runs on the integers ``Q(x) = S(x) K / (l_3 + 1)!`` with the constant
-    ``K = ((l+s-p)/2)! ((p+l-s)/2)! ((p+s-l)/2)!`` and ``l_3 = (l+p+s)/2``, integers because
+    coefficients; quoted from memory, checked against Racah's sum by the tests).  It runs on the integers ``Q(x) = S(x) K / (n_3 + 1)!`` with the constant
+    ``K = ((n+s-p)/2)! ((p+n-s)/2)! ((p+s-n)/2)!`` and ``n_3 = (n+p+s)/2``, integers because
     ``Q`` is a signed sum of products of four binomials; ``x G_+`` never vanishes inside the
     9j range, so every step is one exact division.  Two Horner sums start each recurrence.
 
@@ -764,11 +764,11 @@ def ninej_kernel_python(a, b, c, d, e, f, g, h, i):
         low = (vector & mask) | (low & (full ^ mask))
     low -= bias
     psi = _pack_to_int(phis[0] - low, length, t)
-    # the constants K / (l3 + 1)! of the three 6j {x p q; l r s}
+    # the constants K / (n3 + 1)! of the three 6j {x p q; n r s}
     constants = 0
-    for p, q, l, r, s in ((f, b, c, a, i), (b, f, e, d, h), (a, i, g, h, d)):
-        constants += (fp[(l + s - p) >> 1] + fp[(p + l - s) >> 1] + fp[(p + s - l) >> 1]
-                      - fp[((l + p + s) >> 1) + 1])
+    for p, q, n, r, s in ((f, b, c, a, i), (b, f, e, d, h), (a, i, g, h, d)):
+        constants += (fp[(n + s - p) >> 1] + fp[(p + n - s) >> 1] + fp[(p + s - n) >> 1]
+                      - fp[((n + p + s) >> 1) + 1])
     q1, q2, q3 = _scaled_racah(lo, f, b, c, a, i), _scaled_racah(lo, b, f, e, d, h), _scaled_racah(lo, a, i, g, h, d)
     total = (lo + 1) * psi * q1 * q2 * q3
     if m:
@@ -806,11 +806,11 @@ def ninej_kernel_python(a, b, c, d, e, f, g, h, i):
     return _split_square(2 * (low - constants) + outer, top, total, t)
 
 
-def _scaled_racah(x, p, q, l, r, s):
-    """``Q(x) = S(x) K / (l_3 + 1)!`` of the 6j ``{x p q; l r s}`` (doubled; see
+def _scaled_racah(x, p, q, n, r, s):
+    """``Q(x) = S(x) K / (n_3 + 1)!`` of the 6j ``{x p q; n r s}`` (doubled; see
     :func:`ninej_kernel_python`): Horner on the Racah sum, then the leading term as four binomials."""
-    a1, a2, a3, a4 = (x + p + q) >> 1, (x + r + s) >> 1, (l + p + s) >> 1, (l + r + q) >> 1
-    e1, e2, e3 = (x + q + l + s) >> 1, (x + p + l + r) >> 1, (p + q + r + s) >> 1  # paired with a1, a2, a4
+    a1, a2, a3, a4 = (x + p + q) >> 1, (x + r + s) >> 1, (n + p + s) >> 1, (n + r + q) >> 1
+    e1, e2, e3 = (x + q + n + s) >> 1, (x + p + n + r) >> 1, (p + q + r + s) >> 1  # paired with a1, a2, a4
     t0 = max(a1, a2, a3, a4)
     t1 = min(e1, e2, e3)
     p = q = 1
