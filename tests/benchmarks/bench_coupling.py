@@ -15,7 +15,7 @@ Prints, one line per configuration:
   (``sqrt`` of a float ratio) against mpmath at 320 bits, in units in the last place;
 * cache behaviour: hits and warm time for symmetric variants of evaluated symbols.
 
-Run ``python tests/benchmarks/bench_coupling.py`` (about 2-4 minutes) or with
+Run ``python tests/benchmarks/bench_coupling.py`` (about 3-6 minutes) or with
 ``--quick`` (about 20 s).  Times are CPU seconds of this process (``time.process_time``), so that
 other load on a shared box inflates them less; figures on a shared 2-core box still vary by +-30 %.
 The first line names the 6j kernel in use (compiled GMP kernel or pure
