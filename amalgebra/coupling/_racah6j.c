@@ -384,7 +384,7 @@ static PyObject *clear(PyObject *self, PyObject *unused)
 
 
 /* Racah's 6j sum from unsorted triad sums a[4] and quadruple sums e[3] (plain ints):
- * out = signed P, and acc += its packed denominator vector (as kernels._racah).  Returns 0 when P == 0. */
+ * out = signed P, and acc += its packed denominator vector (as Racah's sum in kernels.sixj_racah_sum).  Returns 0 when P == 0. */
 static int racah_sum(const long *a, const long *e, mpz_t out, long *acc)
 {
     long t0 = a[0], t1 = e[0], u;

@@ -72,6 +72,7 @@ __all__ = [
     "sixj_kernel",
     "sixj_kernel_sorted",
     "sixj_kernel_sorted_python",
+    "sixj_from_key_python",
     "sixj_key_plain",
     "ninej_kernel",
     "ninej_kernel_python",
@@ -625,6 +626,12 @@ def sixj_kernel_sorted(a1, a2, a3, a4, e1, e2, e3):
 
 def sixj_kernel_sorted_python(a1, a2, a3, a4, e1, e2, e3):
     """The pure-Python :func:`sixj_kernel_sorted` (the reference for the compiled kernel)."""
+    return sixj_from_key_python((a1, a2, a3, a4, e1, e2, e3))
+
+
+def sixj_from_key_python(key):
+    """:func:`sixj_kernel_sorted_python` of the sorted key tuple (what the 6j cache holds: no extra frame)."""
+    a1, a2, a3, a4, e1, e2, e3 = key
     t = _tables
     top = e3 + 1
     fp = t.packs if top < len(t.packs) else _packs(top, t)

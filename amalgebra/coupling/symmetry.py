@@ -56,7 +56,7 @@ References
 from functools import lru_cache
 
 from . import kernels
-from .kernels import ninej_kernel, sixj_kernel_sorted_python, threej_kernel
+from .kernels import ninej_kernel, threej_kernel
 
 __all__ = [
     "CACHE_SIZE",
@@ -168,7 +168,7 @@ def _sixj_python(key):
     # only without the compiled module (see below), so straight to the pure-Python kernel
     if kernels._fallback_pending:
         kernels.warn_fallback_once()
-    return sixj_kernel_sorted_python(*key)
+    return kernels.sixj_from_key_python(key)
 
 
 if kernels._compiled is not None:
@@ -176,8 +176,11 @@ if kernels._compiled is not None:
     # pure-Python kernel itself beyond its table
     kernels._compiled.register_python_sixj(kernels.sixj_kernel_sorted_python)
     _sixj_canonical = lru_cache(maxsize=CACHE_SIZE)(kernels._compiled.sixj_from_key)
-else:
+elif kernels._fallback_pending:
     _sixj_canonical = lru_cache(maxsize=CACHE_SIZE)(_sixj_python)
+else:
+    # the pure-Python kernel by request (AMALGEBRA_PURE_PYTHON=1): no warning to give, no extra frame
+    _sixj_canonical = lru_cache(maxsize=CACHE_SIZE)(kernels.sixj_from_key_python)
 
 
 @lru_cache(maxsize=NINEJ_CACHE_SIZE)
