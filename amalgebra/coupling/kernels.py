@@ -400,8 +400,14 @@ def _split_square(packed, limit, factor, t=None):
         n <<= e2
     elif e2 < 0:
         den <<= -e2
+    return _lowest_terms(n, den, s, factor)
+
+
+def _lowest_terms(n, den, s, factor):
+    """The triple with ``n/den`` reduced: ``gcd(n, den) = gcd(factor, den)``, the primes of the
+    square root's upper half and of ``den`` being disjoint."""
     if den != 1:
-        g = gcd(factor, den)  # = gcd(n, den): the primes of ``ups`` and of ``den`` are disjoint
+        g = gcd(factor, den)
         if g != 1:
             n //= g
             den //= g
@@ -477,12 +483,7 @@ def _split_square_wide(packed, length, factor, t):
         n *= prod(map(_pow, compress(primes, ups), filter(None, ups)))
     downs = memoryview(((half ^ sign) - (digits ^ upper)).to_bytes(size, _NATIVE)).cast(_UINT32).tolist()
     den = prod(map(_pow, compress(primes, downs), filter(None, downs)))
-    if den != 1:
-        g = gcd(factor, den)  # = gcd(n, den): the primes of ``ups`` and of ``den`` are disjoint
-        if g != 1:
-            n //= g
-            den //= g
-    return n, den, s
+    return _lowest_terms(n, den, s, factor)
 
 
 def _squarefree_small(n):

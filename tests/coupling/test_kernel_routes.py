@@ -29,12 +29,7 @@ _reference = importlib.util.module_from_spec(_spec)
 _spec.loader.exec_module(_reference)
 
 
-@pytest.fixture(autouse=True, scope="module")
-def python_kernels_only():
-    saved = kernels._COMPILED_TOP, kernels._COMPILED_TOP_DOUBLED
-    kernels._COMPILED_TOP = kernels._COMPILED_TOP_DOUBLED = -1
-    yield
-    kernels._COMPILED_TOP, kernels._COMPILED_TOP_DOUBLED = saved
+pytestmark = pytest.mark.usefixtures("python_kernels_only")   # tests/coupling/conftest.py
 
 
 def signed_square(triple):

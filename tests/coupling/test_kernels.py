@@ -15,12 +15,7 @@ from sympy import factorint
 from amalgebra.coupling import kernels
 
 
-@pytest.fixture(autouse=True, scope="module")
-def python_kernels_only():
-    saved = kernels._COMPILED_TOP, kernels._COMPILED_TOP_DOUBLED
-    kernels._COMPILED_TOP = kernels._COMPILED_TOP_DOUBLED = -1
-    yield
-    kernels._COMPILED_TOP, kernels._COMPILED_TOP_DOUBLED = saved
+pytestmark = pytest.mark.usefixtures("python_kernels_only")   # tests/coupling/conftest.py
 
 
 def unpacked_factorial(n):
