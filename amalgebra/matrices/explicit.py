@@ -90,7 +90,7 @@ from ..errors import ConventionError, NotNumericError, OperatorError
 from ..limits import check_limit
 from ..states.engine import check_reduced, kernel_only
 from ..tensors.wigner_eckart import check_convention
-from .multiplets import multiplet_basis, multiplet_matrix, require_numpy, require_scipy_sparse
+from .multiplets import _FloatOps, multiplet_basis, multiplet_matrix, require_numpy, require_scipy_sparse
 
 __all__ = ["to_matrix", "verify_identity", "assert_identity", "IdentityCheck"]
 
@@ -360,26 +360,11 @@ def _exact(expr, spaces, subs, table, convention, occupations=None):
 
 
 def _numeric_from_exact(matrix, kind):
-    """A float (numpy) or sparse (scipy) array of an exact matrix whose entries are numbers."""
-    np = require_numpy()
-    entries = {}
-    for (r, c), value in matrix.todok().items():
-        if value.free_symbols:
-            names = ", ".join(sorted(str(x) for x in value.free_symbols))
-            raise NotNumericError(f"entry [{r}, {c}]={value} must be numeric for a {kind} matrix: give subs "
-                                  f"for {names} or use kind='exact'")
-        entries[(r, c)] = complex(value)
-    complex_needed = any(v.imag != 0 for v in entries.values())
-    dtype = complex if complex_needed else float
-    n = matrix.rows
-    rows = np.array([r for r, _ in entries], dtype=int)
-    cols = np.array([c for _, c in entries], dtype=int)
-    data = np.array([v if complex_needed else v.real for v in entries.values()], dtype=dtype)
-    if kind == "sparse":
-        return require_scipy_sparse().csr_array((data, (rows, cols)), shape=(n, n))
-    out = np.zeros((n, n), dtype=dtype)
-    out[rows, cols] = data
-    return out
+    """The float (numpy) or sparse (scipy) array of an exact matrix of numbers (the numeric layer's own
+    conversion, :class:`~amalgebra.matrices.multiplets._FloatOps`: free symbols refused, real when it can be)."""
+    ops = _FloatOps(matrix.rows, None, kind == "sparse")
+    entries = {key: ops.number(value) for key, value in matrix.todok().items()}
+    return ops.finish(ops._array(entries, matrix.rows))
 
 
 def _complex_coefficients(algebra, element, subs):
@@ -611,7 +596,7 @@ def verify_identity(lhs, rhs, j_values, subs=None, reduced=None):
     for js in _j_sets(j_values):
         spaces, occupations, _ = _check_j(js, bosons)
         # a mode's cutoff as a range, so that a side without that mode (a scalar) still reads it as a mode
-        js = {label: (range(occupations[label][0], occupations[label][-1] + 1) if label in occupations
+        js = {label: (range(int(occupations[label][-1]) + 1) if label in occupations and not isinstance(value, range)
                       else value) for label, value in js.items()}
         left = to_matrix(lhs, js, reduced=reduced)
         right = to_matrix(rhs, js, reduced=reduced)

@@ -96,7 +96,7 @@ from .._exact import exact_sum
 from ..errors import StateError
 from .engine import compile_operator
 from .actionform import slots
-from .kets import Ket, ProductKet, _factor_map, _mode_map, components
+from .kets import _MODE_STATES, Ket, _factor_map, _mode_map, _product_state, components
 
 __all__ = ["apply", "matrix_element", "expectation"]
 
@@ -117,13 +117,9 @@ def _target(labels, modes, values):
     names, where = slots(labels, modes)
     kets = [Ket._unchecked(j, m, lab) for i, (lab, (j, m)) in enumerate(zip(names, values)) if i not in where]
     fock = None
-    if where:
-        from ..bosons.fock import FockKet
-
-        fock = FockKet._unchecked(tuple(names[i] for i in where), tuple(values[i][1] for i in where))
-    if len(kets) + (fock is not None) == 1:
-        return kets[0] if kets else fock
-    return ProductKet._unchecked(kets, fock)
+    if where:   # a mode value exists only once a Fock ket did, so the Fock class is declared
+        fock = _MODE_STATES[Ket]._unchecked(tuple(names[i] for i in where), tuple(values[i][1] for i in where))
+    return _product_state(kets, fock)
 
 
 def apply(op, state, *, reduced=None, convention="edmonds"):

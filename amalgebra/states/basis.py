@@ -50,7 +50,7 @@ from .. import notation
 from .._validation import label_key
 from ..errors import StateError
 from ..qnumbers import half_integer
-from .kets import Ket, ProductKet, _factor_map, _mode_map, components
+from .kets import Ket, _factor_map, _mode_map, _product_state, components
 
 __all__ = ["Basis", "product_basis", "read_space", "read_spaces", "boson_labels"]
 
@@ -338,14 +338,11 @@ def product_basis(j, modes=()):
     labels, bosons = list(spaces), list(occupations)
     per_label = [_multiplets(spaces[label]) for label in labels] + [occupations[mode] for mode in bosons]
     values = list(product(*per_label))
-    states = []
+    fock = None
     if bosons:
         from ..bosons.fock import FockKet
-    for vals in values:
-        kets = [Ket._unchecked(jv, m, label) for label, (jv, m) in zip(labels, vals)]
-        if bosons:
-            fock = FockKet._unchecked(bosons, vals[len(labels):])
-            states.append(fock if not kets else ProductKet._unchecked(kets, fock))
-        else:
-            states.append(kets[0] if len(kets) == 1 else ProductKet._unchecked(kets))
+
+        fock = FockKet._unchecked
+    states = [_product_state([Ket._unchecked(jv, m, label) for label, (jv, m) in zip(labels, vals)],
+                             fock(bosons, vals[len(labels):]) if fock else None) for vals in values]
     return Basis(states, labels, values, bosons)

@@ -107,7 +107,7 @@ from .basis import Basis, boson_labels, product_basis, read_spaces
 from .coupled import CoupledKet, coupled_basis
 from .eigen import DEFAULT_TIME_BUDGET, block_eigenvalues
 from .engine import compile_operator
-from .kets import Ket, ProductKet, _factor_map, _label_key, _mode_map, components
+from .kets import _factor_map, _label_key, _mode_map, components
 
 __all__ = ["hamiltonian_matrix", "HamiltonianMatrix", "OperatorMatrix", "Block", "operator_matrix"]
 
@@ -316,16 +316,15 @@ def operator_matrix(op, kets):
 
 def _operator_entries(op, kets):
     """``{(row, col): value}`` of the nonzero entries of ``op`` on product kets (through the engine)."""
+    from .action import _basis_values, _target
+
     index = {k: i for i, k in enumerate(kets)}
     entries = {}
     for col, k in enumerate(kets):
-        fm = _factor_map(k)
-        labels = tuple(sorted(fm, key=_label_key))
-        compiled = compile_operator(op, labels)
-        start = tuple(fm[lab] for lab in labels)
+        labels, modes, start = _basis_values(k)
+        compiled = compile_operator(op, labels, modes)
         for target, amp in compiled.act({start: S.One}).items():
-            kets_ = [Ket(j, m, lab) for lab, (j, m) in zip(labels, target)]
-            state = kets_[0] if len(kets_) == 1 else ProductKet._unchecked(kets_)
+            state = _target(labels, modes, target)
             row = index.get(state)
             if row is None:
                 raise StateError(f"kets must span a space closed under op: {state} is missing")

@@ -487,6 +487,14 @@ _KETS = (Ket, ProductKet)
 _BRAS = (Bra, ProductBra)
 
 
+def _product_state(kets, fock=None):
+    """The basis ket of validated ``|j m>`` factors (label order) and an optional Fock factor: the one
+    factor itself, else the product ket."""
+    if fock is None:
+        return kets[0] if len(kets) == 1 else ProductKet._unchecked(kets)
+    return ProductKet._unchecked(kets, fock) if kets else fock
+
+
 def _kinds(side):
     """The basis classes of one side (``Ket`` or ``Bra``): |j m>, products, and Fock states once declared."""
     base = _KETS if side is Ket else _BRAS

@@ -331,3 +331,18 @@ def test_spin_boson_states_read_back_from_text():
                   apply(Sp.minus * b.create, k)):
         assert parse(str(state)) == state
         assert parse(to_text(state)) == state
+
+
+def test_operator_matrix_on_spin_boson_kets_matches_to_matrix():
+    # operator_matrix acts through the same engine as apply: the same matrix as to_matrix on a closed set
+    from amalgebra.states.hamiltonian import operator_matrix
+
+    op = a.number * J.z + J.plus * J.minus
+    om = to_matrix(op, {"J": 1, "a": 2}, with_basis=True)
+    assert operator_matrix(op, list(om.basis)) == om.matrix != Matrix.zeros(9, 9)
+
+
+def test_identity_check_keeps_a_stepped_range_of_occupations():
+    # common practice, no source: N is diagonal, so it is checked on any set of occupations, here n = 0, 2, 4
+    result = verify_identity(a.number * a.number, a.create * a.annihilate * a.number, {"a": [range(0, 5, 2)]})
+    assert result.holds and result.checked == [{"a": range(0, 5, 2)}]
